@@ -1,0 +1,105 @@
+import { existsSync } from 'node:fs'
+import { join, resolve } from 'node:path'
+import connectPgSimple from 'connect-pg-simple'
+import { csrfSync } from 'csrf-sync'
+import express, { Router, type Express } from 'express'
+import session from 'express-session'
+import helmet from 'helmet'
+import type pg from 'pg'
+import { pino } from 'pino'
+import { pinoHttp } from 'pino-http'
+import { createPassport } from './auth'
+import type { Config } from './config'
+import type { Db } from './db'
+import type { Mailer } from './mail/mailer'
+import { apiNotFound, errorHandler } from './middleware/error-handler'
+import { authRoutes } from './routes/auth'
+import { healthRoutes } from './routes/health'
+import { mailboxRoutes } from './routes/mailbox'
+import { requireAccess, type RouteSpec } from './routes/route-table'
+import { userRoutes } from './routes/users'
+
+export interface AppOptions {
+  db: Db
+  pool: pg.Pool
+  config: Config
+  mailer: Mailer
+}
+
+export interface AppDeps extends AppOptions {
+  passport: ReturnType<typeof createPassport>
+  csrf: ReturnType<typeof csrfSync>
+}
+
+/** Every route module, in mounting order. A new module is added here and nowhere else. */
+const ROUTE_MODULES = [healthRoutes, authRoutes, userRoutes, mailboxRoutes]
+
+/** Builds the Express app without listening, so tests can drive it through supertest. */
+export function createApp(options: AppOptions): Express {
+  const { config, pool } = options
+  const passport = createPassport(options.db)
+  const csrf = csrfSync({ getTokenFromRequest: req => req.headers['x-csrf-token'] as string | undefined })
+  const deps: AppDeps = { ...options, passport, csrf }
+
+  const app = express()
+  app.disable('x-powered-by')
+  app.set('trust proxy', 'loopback')
+  app.use(
+    pinoHttp({
+      logger: pino({ level: config.env === 'test' ? 'silent' : config.logLevel }),
+      autoLogging: { ignore: req => !req.url?.startsWith('/api') },
+      redact: ['req.headers.cookie', 'req.headers["x-csrf-token"]', 'res.headers["set-cookie"]'],
+    }),
+  )
+  app.use(
+    helmet({
+      // Served over plain http on the firm's network or loopback; forcing https would break it.
+      contentSecurityPolicy: { directives: { upgradeInsecureRequests: null } },
+    }),
+  )
+
+  const PgStore = connectPgSimple(session)
+  const api = Router()
+  api.use(express.json({ limit: '1mb' }))
+  api.use(
+    session({
+      name: config.sessionCookieName,
+      secret: config.sessionSecret,
+      store: new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: config.env === 'test' ? false : 900 }),
+      resave: false,
+      saveUninitialized: false,
+      rolling: true,
+      cookie: { httpOnly: true, sameSite: 'lax', secure: 'auto', maxAge: 12 * 3600_000 },
+    }),
+  )
+  api.use(passport.initialize())
+  api.use(passport.session())
+
+  const routeTable: RouteSpec[] = ROUTE_MODULES.flatMap(m => m(deps))
+  for (const spec of routeTable) {
+    // Access first (401/403 before anything else), then CSRF on state-changing methods.
+    api[spec.method](spec.path, requireAccess(spec.access), csrf.csrfSynchronisedProtection, ...(spec.before ?? []), spec.handler)
+  }
+  api.use('/api/{*rest}', apiNotFound)
+  app.use(api)
+  app.locals.routeTable = routeTable
+
+  if (config.dashboardDist) serveDashboard(app, resolve(config.dashboardDist))
+  app.use(errorHandler)
+  return app
+}
+
+function serveDashboard(app: Express, dist: string) {
+  const index = join(dist, 'index.html')
+  if (!existsSync(index)) throw new Error(`DASHBOARD_DIST has no index.html: ${dist}. Run the build first.`)
+  app.use('/assets', express.static(join(dist, 'assets'), { immutable: true, maxAge: '1y', fallthrough: false }))
+  app.use(express.static(dist, { index: false, maxAge: '1h' }))
+  app.get('/{*splat}', (_req, res) => {
+    res.setHeader('Cache-Control', 'no-cache')
+    res.sendFile(index)
+  })
+}
+
+export function routeTableOf(app: Express): RouteSpec[] {
+  return app.locals.routeTable as RouteSpec[]
+}

@@ -1,0 +1,32 @@
+import { Passport } from 'passport'
+import { Strategy as LocalStrategy } from 'passport-local'
+import type { Db } from './db'
+import { checkPassword } from './services/passwords'
+import { findUserByEmail, findUserById, toUser } from './services/users'
+
+/**
+ * One Passport instance per app (a module-level singleton would collect a serializer
+ * per test app). Sessions store only the user id; each request reloads the user so a
+ * deactivation or role change takes effect at once.
+ */
+export function createPassport(db: Db): InstanceType<typeof Passport> {
+  const passport = new Passport()
+  passport.use(
+    new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
+      void (async () => {
+        const row = await findUserByEmail(db, email)
+        // checkPassword always pays for one bcrypt comparison, user or not.
+        const ok = await checkPassword(password, row?.passwordHash)
+        if (!row || !ok || !row.active) return done(null, false)
+        done(null, toUser(row))
+      })().catch(done)
+    }),
+  )
+  passport.serializeUser((user, done) => done(null, user.id))
+  passport.deserializeUser((id: number, done) => {
+    findUserById(db, id)
+      .then(row => done(null, row && row.active ? toUser(row) : false))
+      .catch(done)
+  })
+  return passport
+}

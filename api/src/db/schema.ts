@@ -1,0 +1,67 @@
+import { sql } from 'drizzle-orm'
+import { boolean, index, integer, jsonb, pgEnum, pgTable, serial, text, timestamp, uniqueIndex, varchar, json } from 'drizzle-orm/pg-core'
+
+export const roleEnum = pgEnum('role', ['admin', 'principal', 'engineer', 'bd'])
+export const unitSystemEnum = pgEnum('unit_system', ['us', 'si'])
+export const tokenKindEnum = pgEnum('token_kind', ['invite', 'reset'])
+
+export const users = pgTable(
+  'users',
+  {
+    id: serial('id').primaryKey(),
+    email: varchar('email', { length: 254 }).notNull(),
+    name: varchar('name', { length: 120 }).notNull(),
+    role: roleEnum('role').notNull(),
+    /** Null until the user sets a password from an invitation. */
+    passwordHash: text('password_hash'),
+    active: boolean('active').notNull().default(true),
+    units: unitSystemEnum('units').notNull().default('us'),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+    lastSignInAt: timestamp('last_sign_in_at', { withTimezone: true }),
+  },
+  t => [uniqueIndex('users_email_key').on(sql`lower(${t.email})`)],
+)
+
+/** One-time links for invitations and password resets. Only the SHA-256 of the token is stored. */
+export const userTokens = pgTable(
+  'user_tokens',
+  {
+    id: serial('id').primaryKey(),
+    userId: integer('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    kind: tokenKindEnum('kind').notNull(),
+    tokenHash: varchar('token_hash', { length: 64 }).notNull(),
+    expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+    usedAt: timestamp('used_at', { withTimezone: true }),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  t => [uniqueIndex('user_tokens_hash_key').on(t.tokenHash), index('user_tokens_user_idx').on(t.userId)],
+)
+
+/** Who changed what. `detail` holds the before/after values of the change. */
+export const auditLog = pgTable(
+  'audit_log',
+  {
+    id: serial('id').primaryKey(),
+    at: timestamp('at', { withTimezone: true }).notNull().defaultNow(),
+    actorId: integer('actor_id').references(() => users.id, { onDelete: 'set null' }),
+    action: varchar('action', { length: 80 }).notNull(),
+    entity: varchar('entity', { length: 80 }).notNull(),
+    entityId: varchar('entity_id', { length: 80 }),
+    detail: jsonb('detail').notNull().default({}),
+  },
+  t => [index('audit_log_entity_idx').on(t.entity, t.entityId)],
+)
+
+/** express-session store table, in the layout connect-pg-simple expects. */
+export const session = pgTable(
+  'session',
+  {
+    sid: varchar('sid').primaryKey(),
+    sess: json('sess').notNull(),
+    expire: timestamp('expire', { precision: 6 }).notNull(),
+  },
+  t => [index('IDX_session_expire').on(t.expire)],
+)

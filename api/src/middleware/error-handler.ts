@@ -1,0 +1,49 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express'
+import { ZodError } from 'zod'
+import { toFieldMessages, type ApiErrorBody } from '@shared/schemas/api-error'
+import { HttpError } from '../errors'
+
+function isDatabaseDown(err: unknown): boolean {
+  const code = (err as { code?: string } | null)?.code
+  const message = err instanceof Error ? err.message : ''
+  return (
+    code === 'ECONNREFUSED' ||
+    code === '57P01' || // admin_shutdown
+    code === '57P03' || // cannot_connect_now
+    /Connection terminated|connection timeout|timeout exceeded when trying to connect/i.test(message)
+  )
+}
+
+// Express recognises error middleware by its four parameters; keep `_next`.
+export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
+  let status = 500
+  let body: ApiErrorBody = { error: { code: 'INTERNAL', message: 'Something went wrong on our side. It has been logged.' } }
+  if (err instanceof ZodError) {
+    status = 400
+    body = { error: { code: 'VALIDATION_FAILED', message: 'Some fields are invalid.', fields: toFieldMessages(err.issues) } }
+  } else if (err instanceof HttpError) {
+    status = err.status
+    body = { error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } }
+  } else if (err?.code === 'EBADCSRFTOKEN' || err?.message === 'invalid csrf token') {
+    status = 403
+    body = { error: { code: 'CSRF_INVALID', message: 'Your session’s security token is missing or out of date. Reload the page and try again.' } }
+  } else if (err?.type === 'entity.too.large') {
+    status = 413
+    body = { error: { code: 'PAYLOAD_TOO_LARGE', message: 'The request is larger than the server accepts.' } }
+  } else if (err?.type === 'entity.parse.failed') {
+    status = 400
+    body = { error: { code: 'VALIDATION_FAILED', message: 'The request body is not valid JSON.' } }
+  } else if (isDatabaseDown(err)) {
+    status = 503
+    body = { error: { code: 'SERVICE_UNAVAILABLE', message: 'The database is not reachable right now. Try again in a moment.' } }
+    req.log?.warn({ err }, 'database unavailable')
+  } else {
+    req.log?.error({ err }, 'unhandled error')
+  }
+  if (res.headersSent) return
+  res.status(status).json(body)
+}
+
+export const apiNotFound: RequestHandler = (_req, _res, next) => {
+  next(new HttpError(404, 'NOT_FOUND', 'No such API route.'))
+}
