@@ -6,7 +6,8 @@
  */
 import { spawnSync } from 'node:child_process'
 import { createHash } from 'node:crypto'
-import { existsSync } from 'node:fs'
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs'
+import { randomBytes } from 'node:crypto'
 import { join, resolve } from 'node:path'
 import { createApp } from '../api/src/app'
 import { loadConfig } from '../api/src/config'
@@ -32,6 +33,16 @@ function dataDirFor(): string {
   // keep the cluster in a folder of its own, named after the checkout.
   const tag = createHash('sha256').update(ROOT).digest('hex').slice(0, 10)
   return `/var/tmp/backsight-${tag}/pgdata`
+}
+
+/** A secret kept in var/ so sessions survive a restart of `npm start`. */
+function sessionSecret(): string {
+  const file = join(ROOT, 'var', 'session-secret')
+  if (existsSync(file)) return readFileSync(file, 'utf8').trim()
+  mkdirSync(join(ROOT, 'var'), { recursive: true })
+  const secret = randomBytes(32).toString('hex')
+  writeFileSync(file, secret, { mode: 0o600 })
+  return secret
 }
 
 async function main() {
@@ -64,6 +75,7 @@ async function main() {
     if (r.status !== 0) throw new Error('The dashboard build failed.')
   }
   env.DASHBOARD_DIST = join(ROOT, 'dist', 'dashboard')
+  env.SESSION_SECRET ??= sessionSecret()
   env.NODE_ENV = env.NODE_ENV ?? 'production'
 
   const config = loadConfig(env)

@@ -43,6 +43,7 @@ export interface Cluster {
 /** Creates the cluster if `dataDir` is empty, then starts it (or reuses a running one). */
 export function startCluster({ dataDir, port }: { dataDir: string; port: number }): Cluster {
   const bin = findPgBin()
+  mkdirSync(dirname(dataDir), { recursive: true, mode: 0o755 })
   mkdirSync(dataDir, { recursive: true, mode: 0o700 })
   if (isRoot) {
     const pwUid = Number(execFileSync('id', ['-u', 'postgres'], { encoding: 'utf8' }).trim())

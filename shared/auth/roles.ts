@@ -104,8 +104,15 @@ export function areasFor(role: Role): Area[] {
   return AREAS.filter(a => isAreaAllowed(a, role))
 }
 
+/** The area each role lands on after sign-in. */
+export const HOME_AREA: Record<Role, Area> = {
+  admin: 'admin',
+  principal: 'overview',
+  engineer: 'overview',
+  bd: 'benchmarks',
+}
+
 /** Where a role lands after sign-in. */
 export function homePathFor(role: Role): string {
-  const first = areasFor(role)[0]
-  return first ? AREA_INFO[first].path : '/account'
+  return AREA_INFO[HOME_AREA[role]].path
 }

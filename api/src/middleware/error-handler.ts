@@ -33,6 +33,10 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   } else if (err?.type === 'entity.parse.failed') {
     status = 400
     body = { error: { code: 'VALIDATION_FAILED', message: 'The request body is not valid JSON.' } }
+  } else if (err?.code === '23505') {
+    // unique_violation: two requests raced to create the same thing
+    status = 409
+    body = { error: { code: 'CONFLICT', message: 'That already exists (someone may have just created it).' } }
   } else if (isDatabaseDown(err)) {
     status = 503
     body = { error: { code: 'SERVICE_UNAVAILABLE', message: 'The database is not reachable right now. Try again in a moment.' } }

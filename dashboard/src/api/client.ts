@@ -17,7 +17,8 @@ export class ApiError extends Error {
   }
 }
 
-let csrfToken: string | undefined
+// The promise, not the token: concurrent first calls share one fetch (two would race for the session cookie).
+let csrfToken: Promise<string> | undefined
 let onUnauthenticated: (() => void) | undefined
 
 /** Called on any 401 (except sign-in itself); the router sends the user to sign in. */
@@ -30,8 +31,14 @@ export function resetCsrf() {
   csrfToken = undefined
 }
 
-async function getCsrf(): Promise<string> {
-  if (!csrfToken) csrfToken = (await request('/api/auth/csrf', { response: CsrfResponse })).token
+function getCsrf(): Promise<string> {
+  csrfToken ??= request('/api/auth/csrf', { response: CsrfResponse }).then(
+    r => r.token,
+    err => {
+      csrfToken = undefined
+      throw err
+    },
+  )
   return csrfToken
 }
 
