@@ -17,6 +17,7 @@ import { authRoutes } from './routes/auth'
 import { healthRoutes } from './routes/health'
 import { mailboxRoutes } from './routes/mailbox'
 import { requireAccess, type RouteSpec } from './routes/route-table'
+import { sizingRoutes } from './routes/sizing'
 import { userRoutes } from './routes/users'
 
 export interface AppOptions {
@@ -32,7 +33,7 @@ export interface AppDeps extends AppOptions {
 }
 
 /** Every route module, in mounting order. A new module is added here and nowhere else. */
-const ROUTE_MODULES = [healthRoutes, authRoutes, userRoutes, mailboxRoutes]
+const ROUTE_MODULES = [healthRoutes, authRoutes, userRoutes, mailboxRoutes, sizingRoutes]
 
 /** Builds the Express app without listening, so tests can drive it through supertest. */
 export function createApp(options: AppOptions): Express {

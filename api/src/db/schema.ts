@@ -65,3 +65,26 @@ export const session = pgTable(
   },
   t => [index('IDX_session_expire').on(t.expire)],
 )
+
+/** Firm-wide settings, one JSON value per key (e.g. `sizing-defaults`), validated by shared schemas. */
+export const firmSettings = pgTable('firm_settings', {
+  key: varchar('key', { length: 80 }).primaryKey(),
+  value: jsonb('value').notNull(),
+  updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  updatedBy: integer('updated_by').references(() => users.id, { onDelete: 'set null' }),
+})
+
+/** Each user's working copy of a screen's form (the New frame worksheet), so it survives a reload. */
+export const worksheets = pgTable(
+  'worksheets',
+  {
+    id: serial('id').primaryKey(),
+    userId: integer('user_id')
+      .notNull()
+      .references(() => users.id, { onDelete: 'cascade' }),
+    kind: varchar('kind', { length: 40 }).notNull(),
+    state: jsonb('state').notNull(),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  t => [uniqueIndex('worksheets_user_kind_key').on(t.userId, t.kind)],
+)

@@ -1,6 +1,8 @@
 import type { ErrorRequestHandler, RequestHandler } from 'express'
 import { ZodError } from 'zod'
 import { toFieldMessages, type ApiErrorBody } from '@shared/schemas/api-error'
+import { EngineeringInputError } from '@shared/engineering/errors'
+import { toSizingErrorFields } from '@shared/schemas/sizing'
 import { HttpError } from '../errors'
 
 function isDatabaseDown(err: unknown): boolean {
@@ -21,6 +23,9 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   if (err instanceof ZodError) {
     status = 400
     body = { error: { code: 'VALIDATION_FAILED', message: 'Some fields are invalid.', fields: toFieldMessages(err.issues) } }
+  } else if (err instanceof EngineeringInputError) {
+    status = 400
+    body = { error: { code: 'VALIDATION_FAILED', message: 'Some inputs cannot describe a real frame.', fields: toSizingErrorFields(err) ?? {} } }
   } else if (err instanceof HttpError) {
     status = err.status
     body = { error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } }
