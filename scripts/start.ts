@@ -77,6 +77,8 @@ async function main() {
   env.DASHBOARD_DIST = join(ROOT, 'dist', 'dashboard')
   env.SESSION_SECRET ??= sessionSecret()
   env.NODE_ENV = env.NODE_ENV ?? 'production'
+  // Request logs stay out of the terminal unless asked for (LOG_LEVEL=info).
+  env.LOG_LEVEL = env.LOG_LEVEL ?? 'warn'
 
   const config = loadConfig(env)
   const { db, pool, close } = openDb(config.databaseUrl)
