@@ -2,7 +2,10 @@ import { drizzle, type NodePgDatabase } from 'drizzle-orm/node-postgres'
 import { migrate } from 'drizzle-orm/node-postgres/migrator'
 import { fileURLToPath } from 'node:url'
 import pg from 'pg'
-import * as schema from './schema'
+import * as historySchema from './history-schema'
+import * as authSchema from './schema'
+
+const schema = { ...authSchema, ...historySchema }
 
 export { schema }
 export type Db = NodePgDatabase<typeof schema>
