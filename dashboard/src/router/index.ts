@@ -18,6 +18,7 @@ declare module 'vue-router' {
 /** Areas whose screens are built get their own view here; the others show the "not available yet" panel. */
 const BUILT: Partial<Record<Area, () => Promise<unknown>>> = {
   admin: () => import('../views/AdminView.vue'),
+  'new-frame': () => import('../views/NewFrameView.vue'),
 }
 
 const areaRoutes: RouteRecordRaw[] = AREAS.map(area => ({
