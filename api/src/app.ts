@@ -19,28 +19,34 @@ import { mailboxRoutes } from './routes/mailbox'
 import { requireAccess, type RouteSpec } from './routes/route-table'
 import { sizingRoutes } from './routes/sizing'
 import { userRoutes } from './routes/users'
+import { importRoutes } from './routes/imports'
+import { createImportRunner, type ImportRunner } from './services/import-runner'
 
 export interface AppOptions {
   db: Db
   pool: pg.Pool
   config: Config
   mailer: Mailer
+  /** Runs uploaded imports in loader processes; one is made from the config when not given. */
+  importRunner?: ImportRunner
 }
 
 export interface AppDeps extends AppOptions {
   passport: ReturnType<typeof createPassport>
   csrf: ReturnType<typeof csrfSync>
+  importRunner: ImportRunner
 }
 
 /** Every route module, in mounting order. A new module is added here and nowhere else. */
-const ROUTE_MODULES = [healthRoutes, authRoutes, userRoutes, mailboxRoutes, sizingRoutes]
+const ROUTE_MODULES = [healthRoutes, authRoutes, userRoutes, mailboxRoutes, sizingRoutes, importRoutes]
 
 /** Builds the Express app without listening, so tests can drive it through supertest. */
 export function createApp(options: AppOptions): Express {
   const { config, pool } = options
   const passport = createPassport(options.db)
   const csrf = csrfSync({ getTokenFromRequest: req => req.headers['x-csrf-token'] as string | undefined })
-  const deps: AppDeps = { ...options, passport, csrf }
+  const importRunner = options.importRunner ?? createImportRunner({ databaseUrl: config.databaseUrl })
+  const deps: AppDeps = { ...options, passport, csrf, importRunner }
 
   const app = express()
   app.disable('x-powered-by')
@@ -84,6 +90,7 @@ export function createApp(options: AppOptions): Express {
   api.use('/api/{*rest}', apiNotFound)
   app.use(api)
   app.locals.routeTable = routeTable
+  app.locals.importRunner = importRunner
 
   if (config.dashboardDist) serveDashboard(app, resolve(config.dashboardDist))
   app.use(errorHandler)

@@ -56,6 +56,8 @@ export const projects = pgTable(
     /** True for a project started in the New frame worksheet and not yet finished. */
     draft: boolean('draft').notNull().default(false),
     importRunId: integer('import_run_id'),
+    /** SHA-256 of the project as loaded: a re-import of the same content changes nothing. */
+    contentHash: varchar('content_hash', { length: 64 }),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
   },
@@ -169,7 +171,12 @@ export const importRuns = pgTable('import_runs', {
   source: varchar('source', { length: 20 }).notNull(), // 'cli' | 'upload'
   fileName: varchar('file_name', { length: 260 }).notNull(),
   sha256: varchar('sha256', { length: 64 }).notNull(),
-  status: varchar('status', { length: 20 }).notNull().default('running'),
+  /** queued → running → finished | failed */
+  status: varchar('status', { length: 20 }).notNull().default('queued'),
+  progressStage: varchar('progress_stage', { length: 20 }),
+  progressDone: integer('progress_done').notNull().default(0),
+  progressTotal: integer('progress_total').notNull().default(0),
+  error: text('error'),
   dryRun: boolean('dry_run').notNull().default(false),
   loaded: integer('loaded').notNull().default(0),
   updated: integer('updated').notNull().default(0),

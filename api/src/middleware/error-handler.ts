@@ -32,6 +32,14 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   } else if (err?.code === 'EBADCSRFTOKEN' || err?.message === 'invalid csrf token') {
     status = 403
     body = { error: { code: 'CSRF_INVALID', message: 'Your session’s security token is missing or out of date. Reload the page and try again.' } }
+  } else if (err?.name === 'MulterError') {
+    status = err.code === 'LIMIT_FILE_SIZE' ? 413 : 400
+    body = {
+      error: {
+        code: status === 413 ? 'PAYLOAD_TOO_LARGE' : 'VALIDATION_FAILED',
+        message: status === 413 ? 'The file is larger than the 20 MB an import accepts. Split it by office or era.' : `The upload was not understood (${err.message}).`,
+      },
+    }
   } else if (err?.type === 'entity.too.large') {
     status = 413
     body = { error: { code: 'PAYLOAD_TOO_LARGE', message: 'The request is larger than the server accepts.' } }
