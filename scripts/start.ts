@@ -14,6 +14,11 @@ import { loadConfig } from '../api/src/config'
 import { migrateDb, openDb } from '../api/src/db'
 import { createMailer } from '../api/src/mail/mailer'
 import { DEMO_USERS, ensureDemoUsers } from '../api/src/services/users'
+import { projects } from '../api/src/db/history-schema'
+import { count } from 'drizzle-orm'
+import { expandPaths } from '../etl/src/paths'
+import { readInputs, runImport } from '../etl/src/run'
+import { mailRunSummary } from '../etl/src/summary-mail'
 import { startMailSink, type MailSink } from './fakes/mail-sink'
 import { ensureDatabase, isReachableByPostgres, startCluster, type Cluster } from './lib/postgres'
 import { portOr } from './lib/ports'
@@ -88,6 +93,14 @@ async function main() {
   const demoPassword = env.DEMO_PASSWORD || DEFAULT_DEMO_PASSWORD
   const created = await ensureDemoUsers(db, demoPassword, { force: !!env.DEMO_PASSWORD })
   if (created) step(`Demo users ready (${created} created or reset)`)
+
+  if (env.LOAD_DEMO !== 'off' && (await db.select({ n: count() }).from(projects))[0]!.n === 0) {
+    step('Empty history: loading the demo firm through the ETL (demo-data/)')
+    const summary = await runImport(db, await readInputs(await expandPaths([join(ROOT, 'demo-data')])), { source: 'cli' })
+    const flagged = summary.problems.filter(p => p.severity !== 'note').length
+    step(`Demo firm loaded: ${summary.loaded} projects, ${summary.rejected} rejected and ${summary.queued} values queued for review (${flagged} findings — see Imports)`)
+    await mailRunSummary(db, summary, config.smtp)
+  }
 
   const mailer = createMailer(config.smtp)
   const app = createApp({ db, pool, config, mailer })

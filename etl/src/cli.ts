@@ -2,34 +2,15 @@
  * `npm run etl -- <files or folders…> [--dry-run]`: loads project history files into the database
  * named by DATABASE_URL. Prints progress and a summary; exits 1 when anything was rejected.
  */
-import { readdir, stat } from 'node:fs/promises'
-import { join } from 'node:path'
 import { parseArgs } from 'node:util'
 import cliProgress from 'cli-progress'
 import { migrateDb, openDb } from '../../api/src/db'
+import { expandPaths } from './paths'
 import { formatSummary } from './report'
 import { mailRunSummary } from './summary-mail'
 import { eq } from 'drizzle-orm'
 import { importRuns } from '../../api/src/db/history-schema'
 import { originalOf, readInputs, runImport } from './run'
-
-const HISTORY_FILE = /\.(xlsx|csv|arrow|feather|json)$/i
-
-/** Files as given; folders expand to the history files inside them and their subfolders, sorted. */
-export async function expandPaths(paths: string[]): Promise<string[]> {
-  const out: string[] = []
-  for (const p of paths) {
-    if ((await stat(p)).isDirectory()) {
-      const entries = (await readdir(p, { withFileTypes: true })).filter(e => !e.name.startsWith('.') && !e.name.startsWith('~$'))
-      entries.sort((a, b) => a.name.localeCompare(b.name))
-      for (const e of entries) {
-        if (e.isDirectory()) out.push(...(await expandPaths([join(p, e.name)])))
-        else if (HISTORY_FILE.test(e.name)) out.push(join(p, e.name))
-      }
-    } else out.push(p)
-  }
-  return out
-}
 
 async function main() {
   const { values, positionals } = parseArgs({

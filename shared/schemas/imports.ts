@@ -76,3 +76,14 @@ export const DataQuality = z.object({
 export type DataQuality = z.infer<typeof DataQuality>
 
 export const ExportQuery = z.object({ format: z.enum(['xlsx', 'json', 'csv', 'arrow']).default('xlsx') })
+
+/** `POST /api/projects/drafts`: today's New frame worksheet as a draft project of the history. */
+export const CreateDraftBody = z.object({
+  name: z.string().trim().min(1, { message: 'Name the project.' }).max(200),
+  /** The worksheet's sizing request (validated again as `SizingRequest`). */
+  request: z.unknown(),
+})
+export type CreateDraftBody = z.infer<typeof CreateDraftBody>
+
+export const DraftCreated = z.object({ projectId: z.number().int(), code: z.string() })
+export type DraftCreated = z.infer<typeof DraftCreated>

@@ -46,7 +46,8 @@ describe('POST /api/imports', () => {
     expect(detail.run).toMatchObject({ status: 'finished', loaded: 1, rejected: 0, fileName: 'history.xlsx', hasOriginal: true })
     expect((await t.db.db.select().from(projects).where(eq(projects.code, 'UP-001'))).length).toBe(1)
     const mail = await waitForMail('principal@example.com', { after })
-    expect(mail.text).toMatch(/UP-001 frame A L2: β 1.10 → 1.18, ω 1.40 → 1.50/)
+    // AISC 341-16 F4.2a: assumed Cmax = 1.1 · 1.4 · 46 · 6.5 = 460.46 kip; final = 1.18 · 1.5 · 42.5 · 6.5 = 488.96 kip → +6.2 %
+    expect(mail.text).toMatch(/UP-001: 1 brace group\(s\); worst frame A L2 \+6.2 % \(β 1.10 → 1.18, ω 1.40 → 1.50, Cmax 460 → 489 kip\)/)
   })
 
   it('explains rejects row by row, and offers them as a CSV with formula injection neutralised', async () => {

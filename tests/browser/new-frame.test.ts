@@ -94,6 +94,10 @@ describe('New frame worksheet in Chromium', () => {
     expect(rows[0]).toMatch(/^L1,15,260,/)
     expect(rows[0]).toContain(',2.7854814,3,') // Asc,req and Asc of story 1 (hand check above)
 
+    // Today's frame becomes a draft project of the history.
+    await page.click('[data-test=save-draft]')
+    await page.getByText(/Saved as draft project DRAFT-\d{4}-001/).waitFor()
+
     // The app scrolls inside its layout, so a tall viewport shows the whole worksheet.
     await page.setViewportSize({ width: 1360, height: 2000 })
     await page.screenshot({ path: join(ARTIFACTS, 'new-frame.png') })

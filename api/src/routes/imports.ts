@@ -1,6 +1,8 @@
 import multer from 'multer'
-import { ExportQuery, ResolveReviewBody, ReviewItemId, ReviewListQuery, RunId } from '@shared/schemas/imports'
+import { CreateDraftBody, ExportQuery, ResolveReviewBody, ReviewItemId, ReviewListQuery, RunId } from '@shared/schemas/imports'
+import { SizingRequest } from '@shared/schemas/sizing'
 import type { AppDeps } from '../app'
+import { createDraftProject } from '../services/drafts'
 import { HttpError } from '../errors'
 import { exportHistory, templateCsv, templateWorkbook } from '../services/history-export'
 import { createUploadRun, replayRun } from '../services/import-uploads'
@@ -117,6 +119,16 @@ export function importRoutes({ db, importRunner }: AppDeps): RouteSpec[] {
       access: reviewers,
       handler: async (req, res) => {
         res.json(await resolveReviewItem(db, req.user!.id, ReviewItemId.parse(req.params.itemId), ResolveReviewBody.parse(req.body)))
+      },
+    },
+    {
+      method: 'post',
+      path: '/api/projects/drafts',
+      access: ['engineer', 'principal'],
+      handler: async (req, res) => {
+        const body = CreateDraftBody.parse(req.body)
+        const request = SizingRequest.parse(body.request)
+        res.status(201).json(await createDraftProject(db, req.user!.id, body.name, request))
       },
     },
     {

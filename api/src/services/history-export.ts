@@ -1,7 +1,7 @@
 import ExcelJS from 'exceljs'
 import JSZip from 'jszip'
 import { tableFromArrays, tableToIPC } from 'apache-arrow'
-import { asc, eq } from 'drizzle-orm'
+import { asc } from 'drizzle-orm'
 import { TABLES, TABLE_NAMES, type TableName } from '@shared/history/columns'
 import type { Db } from '../db'
 import { braces, braceSnapshots, frames, levels, projects, suppliers, tonnage } from '../db/history-schema'
@@ -38,7 +38,7 @@ const yn = (b: boolean) => (b ? 'yes' : 'no')
 export async function historyTables(db: Db): Promise<Record<TableName, Row[]>> {
   const sup = await db.select().from(suppliers).orderBy(asc(suppliers.code))
   const supCode = new Map(sup.map(s => [s.id, s.code]))
-  const proj = await db.select().from(projects).where(eq(projects.draft, false)).orderBy(asc(projects.code))
+  const proj = await db.select().from(projects).orderBy(asc(projects.code))
   const codeOf = new Map(proj.map(p => [p.id, p.code]))
   const fr = (await db.select().from(frames).orderBy(asc(frames.id))).filter(f => codeOf.has(f.projectId))
   const frameOf = new Map(fr.map(f => [f.id, f]))

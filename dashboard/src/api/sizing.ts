@@ -1,3 +1,4 @@
+import { CreateDraftBody, DraftCreated } from '@shared/schemas/imports'
 import { SaveWorksheetBody, SizingDefaults, WorksheetResponse, type WorksheetKind } from '@shared/schemas/settings'
 import { SizingRequest, SizingResponse, type SizingRequestInput } from '@shared/schemas/sizing'
 import { request } from './client'
@@ -19,3 +20,7 @@ export const getWorksheet = (kind: WorksheetKind) => request(`/api/worksheets/${
 /** Keep the signed-in user's worksheet (at most 64 KB of JSON). */
 export const saveWorksheet = (kind: WorksheetKind, state: Record<string, unknown>) =>
   request(`/api/worksheets/${kind}`, { method: 'PUT', body: SaveWorksheetBody.parse({ state }), response: WorksheetResponse })
+
+/** Save the worksheet as a draft project of the history (engineer, principal). */
+export const saveDraftProject = (name: string, body: SizingRequestInput) =>
+  request('/api/projects/drafts', { method: 'POST', body: CreateDraftBody.parse({ name, request: SizingRequest.parse(body) }), response: DraftCreated })
