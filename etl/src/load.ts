@@ -1,15 +1,17 @@
 import { createHash } from 'node:crypto'
+import { Readable } from 'node:stream'
+import { pipeline } from 'node:stream/promises'
 import { getTableColumns, inArray, sql } from 'drizzle-orm'
+import type pg from 'pg'
+import { from as copyFrom } from 'pg-copy-streams'
 import type { ProjectRecord, SupplierRecord } from '@shared/history/types'
 import type { Db, DbOrTx } from '../../api/src/db'
-import { braces, braceSnapshots, frames, levels, projects, reviewItems, suppliers, tonnage } from '../../api/src/db/history-schema'
+import { projects, suppliers } from '../../api/src/db/history-schema'
 
-/** PostgreSQL takes at most 65,535 parameters a statement; keep each multi-row insert under that. */
-const MAX_PARAMS = 60_000
 const PROJECT_COLUMNS = getTableColumns(projects)
 
 /** Projects per transaction on the fast path; a failing batch is retried one project at a time. */
-const BATCH = 100
+const BATCH = 250
 
 export interface LoadResult {
   loaded: string[]
@@ -31,18 +33,11 @@ export async function upsertSuppliers(db: DbOrTx, list: SupplierRecord[]): Promi
     .onConflictDoUpdate({ target: suppliers.code, set: { displayName: sql`excluded.display_name`, notes: sql`excluded.notes` } })
 }
 
-async function insertChunked<T extends Record<string, unknown>, R>(rows: T[], columns: number, insert: (chunk: T[]) => Promise<R[]>): Promise<R[]> {
-  const size = Math.max(1, Math.floor(MAX_PARAMS / columns))
-  const out: R[] = []
-  for (let i = 0; i < rows.length; i += size) out.push(...(await insert(rows.slice(i, i + size))))
-  return out
-}
-
 /**
  * Loads project records by natural key. Unchanged projects (same content hash) are skipped;
  * changed ones are replaced whole; each project is all-or-nothing. Batches of projects share one
- * transaction and multi-row statements (the fast path); if a batch fails, its projects are retried
- * one by one so one bad project cannot take good ones with it.
+ * transaction: a multi-row upsert and COPY (the fast path); if a batch fails, its projects are
+ * retried one by one so one bad project cannot take good ones with it.
  */
 export async function loadProjects(
   db: Db,
@@ -69,12 +64,12 @@ export async function loadProjects(
   for (let i = 0; i < todo.length; i += BATCH) {
     const batch = todo.slice(i, i + BATCH)
     try {
-      await db.transaction(tx => writeProjects(tx, batch, hashes, supplierIds, runId))
+      await writeProjects(db, batch, hashes, supplierIds, runId)
       for (const r of batch) (existing.has(r.fields.code) ? result.updated : result.loaded).push(r.fields.code)
     } catch {
       for (const r of batch) {
         try {
-          await db.transaction(tx => writeProjects(tx, [r], hashes, supplierIds, runId))
+          await writeProjects(db, [r], hashes, supplierIds, runId)
           ;(existing.has(r.fields.code) ? result.updated : result.loaded).push(r.fields.code)
         } catch (err) {
           result.failed.push({ code: r.fields.code, message: err instanceof Error ? err.message : String(err) })
@@ -86,77 +81,118 @@ export async function loadProjects(
   return result
 }
 
-async function writeProjects(tx: DbOrTx, batch: ProjectRecord[], hashes: Map<string, string>, supplierIds: Map<string, number>, runId?: number) {
+/** Column order of each COPY, by SQL name. */
+const COPY_COLUMNS = {
+  frames: ['id', 'project_id', 'frame_line', 'configuration', 'bays', 'bay_width_in'],
+  levels: ['id', 'frame_id', 'name', 'level_index', 'story_height_in', 'story_shear_kip', 'design_drift_in'],
+  braces: ['id', 'level_id', 'brace_count', 'angle_deg', 'work_point_length_in', 'required_strength_kip', 'method'],
+  brace_snapshots: [
+    'id', 'brace_id', 'phase', 'revision', 'date', 'source_document', 'required_core_area_in2', 'core_area_in2', 'fysc_ksi', 'fysc_basis',
+    'fysc_max_ksi', 'ry', 'beta', 'omega', 'factor_drift_multiple', 'stiffness_factor', 'yield_length_ratio', 'adjusted_tension_kip',
+    'adjusted_compression_kip', 'governing', 'confirmed',
+  ],
+  tonnage: ['project_id', 'stage', 'category', 'tons_short', 'scope'],
+  review_items: ['run_id', 'snapshot_id', 'project_code', 'field', 'value', 'reason'],
+} as const
+
+type Cell = string | number | boolean | null
+
+/** One CSV field as COPY reads it: unquoted empty is NULL; text is always quoted. */
+function csvField(v: Cell): string {
+  if (v === null) return ''
+  if (typeof v === 'number') return Number.isFinite(v) ? String(v) : ''
+  if (typeof v === 'boolean') return v ? 't' : 'f'
+  return `"${v.replace(/"/g, '""')}"`
+}
+
+async function copyRows(client: pg.PoolClient, table: keyof typeof COPY_COLUMNS, rows: Cell[][]) {
+  if (!rows.length) return
+  const cols = COPY_COLUMNS[table].map(c => `"${c}"`).join(', ')
+  const sink = client.query(copyFrom(`copy ${table} (${cols}) from stdin with (format csv)`))
+  const lines = function* () {
+    for (let i = 0; i < rows.length; i += 1_000) yield rows.slice(i, i + 1_000).map(r => r.map(csvField).join(',')).join('\n') + '\n'
+  }
+  await pipeline(Readable.from(lines()), sink)
+}
+
+async function reserveIds(client: pg.PoolClient, sequence: string, n: number): Promise<number[]> {
+  if (n === 0) return []
+  const r = await client.query<{ id: string }>(`select nextval('${sequence}') as id from generate_series(1, $1)`, [n])
+  return r.rows.map(x => Number(x.id))
+}
+
+/**
+ * Writes a batch of projects in one transaction: one multi-row upsert of the projects, then their
+ * children replaced whole through COPY with ids reserved up front (no row-at-a-time inserts).
+ */
+async function writeProjects(db: Db, batch: ProjectRecord[], hashes: Map<string, string>, supplierIds: Map<string, number>, runId?: number) {
   for (const r of batch) {
     if (r.fields.supplierCode && !supplierIds.has(r.fields.supplierCode)) {
       throw new Error(`Project ${r.fields.code} names supplier ${r.fields.supplierCode}, which is neither in the file's suppliers table nor already stored.`)
     }
   }
-  const now = new Date()
-  const projectRows = batch.map(r => {
-    const { supplierCode, ...f } = r.fields
-    return { ...f, supplierId: supplierCode ? supplierIds.get(supplierCode)! : null, contentHash: hashes.get(r.fields.code)!, importRunId: runId ?? null, updatedAt: now, draft: false }
-  })
-  const ids = await tx
-    .insert(projects)
-    .values(projectRows)
-    .onConflictDoUpdate({
-      target: projects.code,
-      set: Object.fromEntries(Object.keys(projectRows[0]!).map(k => [k, sql.raw(`excluded."${PROJECT_COLUMNS[k as keyof typeof PROJECT_COLUMNS].name}"`)])),
+  // drizzle(pool) keeps the pool as $client; COPY needs a client of its own.
+  const pool = (db as unknown as { $client: pg.Pool }).$client
+  const client = await pool.connect()
+  try {
+    await client.query('begin')
+    const now = new Date()
+    const rows = batch.map(r => {
+      const { supplierCode, ...f } = r.fields
+      return { ...f, supplierId: supplierCode ? supplierIds.get(supplierCode)! : null, contentHash: hashes.get(r.fields.code)!, importRunId: runId ?? null, updatedAt: now, draft: false }
     })
-    .returning({ id: projects.id, code: projects.code })
-  const idOf = new Map(ids.map(x => [x.code, x.id]))
-  const projectIds = ids.map(x => x.id)
-  // Replace the children whole: a project is the unit of loading.
-  await tx.delete(frames).where(inArray(frames.projectId, projectIds))
-  await tx.delete(tonnage).where(inArray(tonnage.projectId, projectIds))
-  await tx.delete(reviewItems).where(inArray(reviewItems.projectCode, batch.map(b => b.fields.code)))
+    const keys = Object.keys(rows[0]!) as (keyof (typeof rows)[number])[]
+    const sqlCols = keys.map(k => `"${PROJECT_COLUMNS[k as keyof typeof PROJECT_COLUMNS].name}"`)
+    const params: unknown[] = []
+    const tuples = rows.map(row => `(${keys.map(k => `$${params.push(row[k])}`).join(', ')})`)
+    const upsert = await client.query<{ id: number; code: string }>(
+      `insert into projects (${sqlCols.join(', ')}) values ${tuples.join(', ')}
+       on conflict (code) do update set ${sqlCols.filter(c => c !== '"code"').map(c => `${c} = excluded.${c}`).join(', ')}
+       returning id, code`,
+      params,
+    )
+    const idOf = new Map(upsert.rows.map(x => [x.code, x.id]))
+    const projectIds = upsert.rows.map(x => x.id)
+    // Replace the children whole: a project is the unit of loading.
+    await client.query('delete from frames where project_id = any($1)', [projectIds])
+    await client.query('delete from tonnage where project_id = any($1)', [projectIds])
+    await client.query('delete from review_items where project_code = any($1)', [batch.map(b => b.fields.code)])
 
-  const frameRows = batch.flatMap(r => r.frames.map(f => ({ projectId: idOf.get(r.fields.code)!, frameLine: f.frameLine, configuration: f.configuration, bays: f.bays, bayWidthIn: f.bayWidthIn })))
-  const frameIds = await insertChunked(frameRows, 5, c => tx.insert(frames).values(c).returning({ id: frames.id, projectId: frames.projectId, frameLine: frames.frameLine }))
-  const frameKey = new Map(frameIds.map(f => [`${f.projectId}|${f.frameLine}`, f.id]))
+    const frameList = batch.flatMap(r => r.frames.map(f => ({ r, f })))
+    const levelList = frameList.flatMap(x => x.f.levels.map(l => ({ ...x, l })))
+    const braceList = levelList.filter(x => x.l.brace)
+    const snapList = braceList.flatMap(x => x.l.brace!.snapshots.map(s => ({ ...x, s })))
+    const frameIds = await reserveIds(client, 'frames_id_seq', frameList.length)
+    const levelIds = await reserveIds(client, 'levels_id_seq', levelList.length)
+    const braceIds = await reserveIds(client, 'braces_id_seq', braceList.length)
+    const snapIds = await reserveIds(client, 'brace_snapshots_id_seq', snapList.length)
+    const frameId = new Map(frameList.map((x, i) => [x.f, frameIds[i]!]))
+    const levelId = new Map(levelList.map((x, i) => [x.l, levelIds[i]!]))
+    const braceId = new Map(braceList.map((x, i) => [x.l, braceIds[i]!]))
+    const snapId = new Map<string, number>()
+    snapList.forEach((x, i) => snapId.set(`${x.r.fields.code}|${x.f.frameLine}|${x.l.name}|${x.s.phase}|${x.s.revision}`, snapIds[i]!))
 
-  const levelRows = batch.flatMap(r =>
-    r.frames.flatMap(f =>
-      f.levels.map(l => ({ frameId: frameKey.get(`${idOf.get(r.fields.code)}|${f.frameLine}`)!, name: l.name, levelIndex: l.levelIndex, storyHeightIn: l.storyHeightIn, storyShearKip: l.storyShearKip, designDriftIn: l.designDriftIn })),
-    ),
-  )
-  const levelIds = await insertChunked(levelRows, 6, c => tx.insert(levels).values(c).returning({ id: levels.id, frameId: levels.frameId, name: levels.name }))
-  const levelKey = new Map(levelIds.map(l => [`${l.frameId}|${l.name}`, l.id]))
-
-  const braceInputs = batch.flatMap(r =>
-    r.frames.flatMap(f =>
-      f.levels
-        .filter(l => l.brace)
-        .map(l => ({ r, f, l, levelId: levelKey.get(`${frameKey.get(`${idOf.get(r.fields.code)}|${f.frameLine}`)}|${l.name}`)! })),
-    ),
-  )
-  const braceIds = await insertChunked(
-    braceInputs.map(b => ({ levelId: b.levelId, braceCount: b.l.brace!.braceCount, angleDeg: b.l.brace!.angleDeg, workPointLengthIn: b.l.brace!.workPointLengthIn, requiredStrengthKip: b.l.brace!.requiredStrengthKip, method: b.l.brace!.method })),
-    6,
-    c => tx.insert(braces).values(c).returning({ id: braces.id, levelId: braces.levelId }),
-  )
-  const braceOfLevel = new Map(braceIds.map(b => [b.levelId, b.id]))
-
-  const snapshotRows = braceInputs.flatMap(b => b.l.brace!.snapshots.map(s => ({ braceId: braceOfLevel.get(b.levelId)!, ...s })))
-  const snapIds = await insertChunked(snapshotRows, 22, c =>
-    tx.insert(braceSnapshots).values(c).returning({ id: braceSnapshots.id, braceId: braceSnapshots.braceId, phase: braceSnapshots.phase, revision: braceSnapshots.revision }),
-  )
-  const snapKey = new Map(snapIds.map(s => [`${s.braceId}|${s.phase}|${s.revision}`, s.id]))
-
-  const tonnageRows = batch.flatMap(r => r.tonnage.map(t => ({ projectId: idOf.get(r.fields.code)!, ...t })))
-  await insertChunked(tonnageRows, 5, c => tx.insert(tonnage).values(c).returning({ id: tonnage.id }))
-
-  const reviewRows = batch.flatMap(r =>
-    r.reviews.map(rv => {
-      let snapshotId: number | null = null
-      if (rv.snapshot) {
-        const frameId = frameKey.get(`${idOf.get(r.fields.code)}|${rv.snapshot.frameLine}`)
-        const braceId = braceOfLevel.get(levelKey.get(`${frameId}|${rv.snapshot.level}`)!)
-        snapshotId = snapKey.get(`${braceId}|${rv.snapshot.phase}|${rv.snapshot.revision}`) ?? null
-      }
-      return { runId: runId ?? null, snapshotId, projectCode: r.fields.code, field: rv.field.slice(0, 80), value: rv.value, reason: rv.reason }
-    }),
-  )
-  await insertChunked(reviewRows, 6, c => tx.insert(reviewItems).values(c).returning({ id: reviewItems.id }))
+    await copyRows(client, 'frames', frameList.map(({ r, f }) => [frameId.get(f)!, idOf.get(r.fields.code)!, f.frameLine, f.configuration, f.bays, f.bayWidthIn]))
+    await copyRows(client, 'levels', levelList.map(({ f, l }) => [levelId.get(l)!, frameId.get(f)!, l.name, l.levelIndex, l.storyHeightIn, l.storyShearKip, l.designDriftIn]))
+    await copyRows(client, 'braces', braceList.map(({ l }) => {
+      const b = l.brace!
+      return [braceId.get(l)!, levelId.get(l)!, b.braceCount, b.angleDeg, b.workPointLengthIn, b.requiredStrengthKip, b.method]
+    }))
+    await copyRows(client, 'brace_snapshots', snapList.map(({ r, f, l, s }) => [
+      snapId.get(`${r.fields.code}|${f.frameLine}|${l.name}|${s.phase}|${s.revision}`)!, braceId.get(l)!, s.phase, s.revision, s.date, s.sourceDocument,
+      s.requiredCoreAreaIn2, s.coreAreaIn2, s.fyscKsi, s.fyscBasis, s.fyscMaxKsi, s.ry, s.beta, s.omega, s.factorDriftMultiple, s.stiffnessFactor,
+      s.yieldLengthRatio, s.adjustedTensionKip, s.adjustedCompressionKip, s.governing, s.confirmed,
+    ]))
+    await copyRows(client, 'tonnage', batch.flatMap(r => r.tonnage.map(t => [idOf.get(r.fields.code)!, t.stage, t.category, t.tons, t.scope])))
+    await copyRows(client, 'review_items', batch.flatMap(r => r.reviews.map(rv => {
+      const sid = rv.snapshot ? (snapId.get(`${r.fields.code}|${rv.snapshot.frameLine}|${rv.snapshot.level}|${rv.snapshot.phase}|${rv.snapshot.revision}`) ?? null) : null
+      return [runId ?? null, sid, r.fields.code, rv.field.slice(0, 80), rv.value, rv.reason]
+    })))
+    await client.query('commit')
+  } catch (err) {
+    await client.query('rollback').catch(() => {})
+    throw err
+  } finally {
+    client.release()
+  }
 }

@@ -68,7 +68,7 @@ export async function runImport(db: Db, inputs: ImportInput[], options: RunOptio
   mergeFolderUnits(bundles)
 
   const assembled = transform(bundles)
-  assembled.problems.unshift(...readProblems)
+  assembled.problems = [...readProblems, ...assembled.problems]
   await flagDuplicates(db, assembled.projects)
   const queued = assembled.projects.reduce((n, p) => n + p.reviews.length, 0)
   for (const p of assembled.projects) {

@@ -49,7 +49,8 @@ export function parseBundle(bundle: RawBundle): { rows: TypedRow[]; problems: Im
       })
       continue
     }
-    rows.push(...parseTable(table, table.table as TableName, units))
+    // A loop, not push(...rows): a table can hold more rows than a call takes arguments.
+    for (const row of parseTable(table, table.table as TableName, units)) rows.push(row)
   }
   return { rows, problems }
 }
@@ -92,16 +93,22 @@ function parseTable(table: RawTable, name: TableName, units: 'us' | 'si' | undef
     unitOf.set(col.name, normalized)
   }
 
+  const units_: Record<string, string | undefined> = Object.fromEntries(unitOf)
   return table.rows.map(raw => {
     const row: TypedRow = { table: name, ...where, line: raw.line, values: {}, errors: tableErrors.map(e => ({ ...e, row: raw.line })), reviews: [] }
     for (const spec of specs) {
-      const cell = raw.values[spec.name]
-      const r = parseCell(spec, cell ?? null, unitOf.get(spec.name))
-      const at = { ...where, row: raw.line, column: spec.name, value: cell === null || cell === undefined ? undefined : String(cell) }
+      const cell = raw.values[spec.name] ?? null
+      const r = parseCell(spec, cell, units_[spec.name])
+      if (r.error === undefined && r.review === undefined) {
+        row.values[spec.name] = r.value
+        continue
+      }
+      // Only problems pay for a location object.
+      const at = { ...where, row: raw.line, column: spec.name, value: cell === null ? undefined : String(cell) }
       if (r.error) row.errors.push({ severity: 'error', ...at, message: r.error })
       else {
         row.values[spec.name] = r.value
-        if (r.review) row.reviews.push({ severity: 'review', ...at, message: r.review })
+        row.reviews.push({ severity: 'review', ...at, message: r.review! })
       }
     }
     return row

@@ -1,15 +1,17 @@
 import type { RawBundle } from '../readers/types'
 import { assemble, type Assembled } from './assemble'
-import { parseBundle } from './cells'
+import { parseBundle, type TypedRow } from './cells'
+import type { ImportProblem } from '@shared/history/types'
 
 /** Raw tables from every file of one run → project records in stored units, and every problem found. */
 export function transform(bundles: RawBundle[]): Assembled {
-  const rows = []
-  const problems = []
+  const rows: TypedRow[] = []
+  const problems: ImportProblem[] = []
   for (const b of bundles) {
     const parsed = parseBundle(b)
-    rows.push(...parsed.rows)
-    problems.push(...parsed.problems)
+    // Loops, not push(...): hundreds of thousands of rows exceed the argument limit.
+    for (const r of parsed.rows) rows.push(r)
+    for (const p of parsed.problems) problems.push(p)
   }
   return assemble(rows, problems)
 }
