@@ -21,6 +21,7 @@ import { sizingRoutes } from './routes/sizing'
 import { userRoutes } from './routes/users'
 import { importRoutes } from './routes/imports'
 import { createImportRunner, type ImportRunner } from './services/import-runner'
+import { markRunFailed } from './services/imports'
 
 export interface AppOptions {
   db: Db
@@ -46,6 +47,11 @@ export function createApp(options: AppOptions): Express {
   const passport = createPassport(options.db)
   const csrf = csrfSync({ getTokenFromRequest: req => req.headers['x-csrf-token'] as string | undefined })
   const importRunner = options.importRunner ?? createImportRunner({ databaseUrl: config.databaseUrl })
+  // A loader that died (killed, out of memory) leaves its run open; close it with the reason.
+  importRunner.onFinished((runId, code) => {
+    if (code === 0) return
+    void markRunFailed(options.db, runId, `The loader process stopped before finishing (exit code ${code ?? 'none'}). Nothing of the unfinished batch was kept; run it again.`).catch(() => {})
+  })
   const deps: AppDeps = { ...options, passport, csrf, importRunner }
 
   const app = express()

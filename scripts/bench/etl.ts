@@ -27,7 +27,8 @@ const STORIES = 10
 
 type Row = Record<string, string | number>
 
-function generate(): Record<string, Row[]> {
+/** A synthetic history of `projects` projects (5 frame lines × 10 stories each), in import-format rows. */
+export function generate(PROJECTS: number): Record<string, Row[]> {
   const t: Record<string, Row[]> = { suppliers: [{ supplier_code: 'BS-A', display_name: 'Bench supplier A' }], projects: [], frames: [], levels: [], braces: [], brace_values: [], tonnage: [] }
   for (let p = 0; p < PROJECTS; p++) {
     const code = `BENCH-${String(p).padStart(5, '0')}`
@@ -55,7 +56,7 @@ function generate(): Record<string, Row[]> {
 
 const headersOf = (rows: Row[]) => [...new Set(rows.flatMap(r => Object.keys(r)))]
 
-function writeCsv(dir: string, tables: Record<string, Row[]>) {
+export function writeCsv(dir: string, tables: Record<string, Row[]>) {
   mkdirSync(dir, { recursive: true })
   writeFileSync(join(dir, 'about.csv'), 'key,value\nunits,us\n')
   for (const [name, rows] of Object.entries(tables)) {
@@ -125,7 +126,7 @@ async function main() {
   }
   try {
     console.log(`Generating ${PROJECTS} projects × ${FRAMES * STORIES} brace groups (${PROJECTS * FRAMES * STORIES} braces, ${PROJECTS * FRAMES * STORIES * 2} snapshots)…`)
-    const tables = generate()
+    const tables = generate(PROJECTS)
     writeCsv(join(work, 'csv'), tables)
     writeArrow(join(work, 'arrow'), tables)
     const rows = Object.values(tables).reduce((n, r) => n + r.length, 0)
@@ -146,7 +147,9 @@ async function main() {
   }
 }
 
-main().catch(err => {
-  console.error(err)
-  process.exit(1)
-})
+if (import.meta.url === `file://${process.argv[1]}`) {
+  main().catch(err => {
+    console.error(err)
+    process.exit(1)
+  })
+}

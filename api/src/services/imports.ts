@@ -1,4 +1,4 @@
-import { and, count, desc, eq, sql } from 'drizzle-orm'
+import { and, count, desc, eq, inArray, sql } from 'drizzle-orm'
 import type { DataQuality, ImportProblemRow, ImportRun } from '@shared/schemas/imports'
 import type { Db } from '../db'
 import { braces, braceSnapshots, frames, importProblems, importRuns, levels, projects, reviewItems } from '../db/history-schema'
@@ -105,4 +105,12 @@ export async function dataQuality(db: Db): Promise<DataQuality> {
     withoutFinals: perProject.filter(p => p.braces > 0 && p.withFinal === 0).map(p => ({ code: p.code, name: p.name, phaseReached: p.phaseReached })),
     completeness: perProject.map(p => ({ code: p.code, name: p.name, braces: p.braces, withFinal: p.withFinal, share: p.braces ? p.withFinal / p.braces : 0 })),
   }
+}
+
+/** Closes a run whose loader ended without finishing it. */
+export async function markRunFailed(db: Db, runId: number, reason: string): Promise<void> {
+  await db
+    .update(importRuns)
+    .set({ status: 'failed', error: reason, finishedAt: new Date() })
+    .where(and(eq(importRuns.id, runId), inArray(importRuns.status, ['queued', 'running'])))
 }
