@@ -31,6 +31,11 @@ export function resetCsrf() {
   csrfToken = undefined
 }
 
+/** The session's CSRF token, for the few calls made outside request() (file uploads). */
+export function getCsrfToken(): Promise<string> {
+  return getCsrf()
+}
+
 function getCsrf(): Promise<string> {
   csrfToken ??= request('/api/auth/csrf', { response: CsrfResponse }).then(
     r => r.token,
@@ -72,15 +77,7 @@ export async function request<S extends z.ZodType>(url: string, options: Request
   }
   const text = await res.text()
   const json: unknown = text ? safeJson(text) : undefined
-  if (!res.ok) {
-    const parsed = ApiErrorBody.safeParse(json)
-    const err = parsed.success
-      ? new ApiError(res.status, parsed.data.error.code, parsed.data.error.message, parsed.data.error.fields)
-      : new ApiError(res.status, res.status >= 500 ? 'INTERNAL' : 'BAD_RESPONSE', `The server answered ${res.status}.`)
-    if (err.code === 'CSRF_INVALID') resetCsrf()
-    if (res.status === 401 && !options.quiet401) onUnauthenticated?.()
-    throw err
-  }
+  if (!res.ok) throw apiErrorFrom(res.status, json, options.quiet401)
   if (res.status === 204) return options.response.parse(undefined)
   const parsed = options.response.safeParse(json)
   if (!parsed.success) {
@@ -90,7 +87,21 @@ export async function request<S extends z.ZodType>(url: string, options: Request
   return parsed.data
 }
 
-function safeJson(text: string): unknown {
+/**
+ * The ApiError for a failed response (its parsed JSON body, if any). Forgets a stale CSRF token and,
+ * unless `quiet401`, sends the user to sign in on 401. Also used by calls made outside request().
+ */
+export function apiErrorFrom(status: number, json: unknown, quiet401 = false): ApiError {
+  const parsed = ApiErrorBody.safeParse(json)
+  const err = parsed.success
+    ? new ApiError(status, parsed.data.error.code, parsed.data.error.message, parsed.data.error.fields)
+    : new ApiError(status, status >= 500 ? 'INTERNAL' : 'BAD_RESPONSE', `The server answered ${status}.`)
+  if (err.code === 'CSRF_INVALID') resetCsrf()
+  if (status === 401 && !quiet401) onUnauthenticated?.()
+  return err
+}
+
+export function safeJson(text: string): unknown {
   try {
     return JSON.parse(text)
   } catch {

@@ -19,6 +19,7 @@ declare module 'vue-router' {
 const BUILT: Partial<Record<Area, () => Promise<unknown>>> = {
   admin: () => import('../views/AdminView.vue'),
   'new-frame': () => import('../views/NewFrameView.vue'),
+  imports: () => import('../views/ImportsView.vue'),
 }
 
 const areaRoutes: RouteRecordRaw[] = AREAS.map(area => ({
