@@ -1,16 +1,9 @@
 import { computeAdjustedStrength } from '../engineering/adjusted-strength'
 import type { CapacityBasis } from '../engineering/capacity-basis'
+import type { SnapshotRecord } from './types'
 
 /** The values of a brace snapshot that decide its adjusted strengths (stored units: in², ksi). */
-export interface SnapshotStrengthInput {
-  coreAreaIn2: number | null
-  fyscKsi: number | null
-  fyscBasis: 'specified_min' | 'yield_range' | 'mill_cert' | 'coupon' | null
-  fyscMaxKsi: number | null
-  ry: number | null
-  beta: number | null
-  omega: number | null
-}
+export type SnapshotStrengthInput = Pick<SnapshotRecord, 'coreAreaIn2' | 'fyscKsi' | 'fyscBasis' | 'fyscMaxKsi' | 'ry' | 'beta' | 'omega'>
 
 /**
  * The expected-yield basis of a snapshot as the engine takes it. Measured yield (coupon or mill

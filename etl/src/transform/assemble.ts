@@ -65,7 +65,9 @@ export function assemble(rows: TypedRow[], fileProblems: ImportProblem[]): Assem
     const record = buildProject(code, group, (p) => fail(code, p), problems)
     if (record && !rejected.has(code)) projects.push(record)
   }
-  return { projects, suppliers: [...suppliers.values()], problems, rejected }
+  // A rejected project's notes would only distract from the errors that rejected it.
+  const shown = problems.filter(p => !(p.severity === 'note' && p.projectCode !== undefined && rejected.has(p.projectCode)))
+  return { projects, suppliers: [...suppliers.values()], problems: shown, rejected }
 }
 
 function at(row: TypedRow, column?: string, value?: TypedValue) {
