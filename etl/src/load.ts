@@ -13,6 +13,9 @@ const PROJECT_COLUMNS = getTableColumns(projects)
 /** Projects per transaction on the fast path; a failing batch is retried one project at a time. */
 const BATCH = 250
 
+/** Batches written at once, each in its own transaction on its own connection. */
+const WRITERS = 3
+
 export interface LoadResult {
   loaded: string[]
   updated: string[]
@@ -61,23 +64,34 @@ export async function loadProjects(
   })
   const supplierIds = new Map((await db.select({ id: suppliers.id, code: suppliers.code }).from(suppliers)).map(s => [s.code, s.id]))
 
-  for (let i = 0; i < todo.length; i += BATCH) {
-    const batch = todo.slice(i, i + BATCH)
-    try {
-      await writeProjects(db, batch, hashes, supplierIds, runId)
-      for (const r of batch) (existing.has(r.fields.code) ? result.updated : result.loaded).push(r.fields.code)
-    } catch {
-      for (const r of batch) {
-        try {
-          await writeProjects(db, [r], hashes, supplierIds, runId)
-          ;(existing.has(r.fields.code) ? result.updated : result.loaded).push(r.fields.code)
-        } catch (err) {
-          result.failed.push({ code: r.fields.code, message: err instanceof Error ? err.message : String(err) })
+  const batches: ProjectRecord[][] = []
+  for (let i = 0; i < todo.length; i += BATCH) batches.push(todo.slice(i, i + BATCH))
+  const landed = (r: ProjectRecord) => (existing.has(r.fields.code) ? result.updated : result.loaded).push(r.fields.code)
+  let next = 0
+  let done = 0
+  // A few writers on their own connections: while one batch waits on the server's constraint and
+  // index work, the next is being encoded. Batches hold different projects, so they never contend.
+  const writer = async () => {
+    while (next < batches.length) {
+      const batch = batches[next++]!
+      try {
+        await writeProjects(db, batch, hashes, supplierIds, runId)
+        batch.forEach(landed)
+      } catch {
+        for (const r of batch) {
+          try {
+            await writeProjects(db, [r], hashes, supplierIds, runId)
+            landed(r)
+          } catch (err) {
+            result.failed.push({ code: r.fields.code, message: err instanceof Error ? err.message : String(err) })
+          }
         }
       }
+      done += batch.length
+      onProgress?.(result.unchanged.length + done, records.length)
     }
-    onProgress?.(result.unchanged.length + i + batch.length, records.length)
   }
+  await Promise.all(Array.from({ length: Math.min(WRITERS, batches.length) }, writer))
   return result
 }
 

@@ -56,20 +56,22 @@ export function readArrow(file: string, data: Uint8Array): RawBundle {
   const problems: Place[] = []
   const fields = table.schema.fields
   const builder = new TableBuilder({}, fields.map(headerOf), undefined, (i) => `column ${i + 1} ("${fields[i]!.name}")`, problems)
-  const vectors = fields.map((_, i) => table.getChildAt(i)!)
+  // Whole columns at once: the vector iterator is far cheaper than get(row) per cell.
+  const columns = fields.map((_, i) => Array.from(table.getChildAt(i)!) as unknown[])
   const unsupported = new Set<number>()
+  let line = 0
+  const reporters = fields.map((field, i) => (message: string) => {
+    // An unsupported type would repeat on every row: say it once per column.
+    if (message.includes('not supported')) {
+      if (unsupported.has(i)) return
+      unsupported.add(i)
+    }
+    problems.push({ line, column: normalizeHeader(field.name).name, message })
+  })
   for (let row = 0; row < table.numRows; row++) {
-    const line = row + 1
-    const cells = fields.map((field, i) =>
-      toCell(field, vectors[i]!.get(row), (message) => {
-        // An unsupported type would repeat on every row: say it once per column.
-        if (message.includes('not supported')) {
-          if (unsupported.has(i)) return
-          unsupported.add(i)
-        }
-        problems.push({ line, column: normalizeHeader(field.name).name, message })
-      }),
-    )
+    line = row + 1
+    const cells: RawCell[] = new Array(fields.length)
+    for (let i = 0; i < fields.length; i++) cells[i] = toCell(fields[i]!, columns[i]![row], reporters[i]!)
     builder.add(line, cells)
   }
   const bundle: RawBundle = { file, format: 'arrow', about, tables: [], problems: problems.map((p) => ({ file, ...p })) }

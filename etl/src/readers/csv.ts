@@ -22,6 +22,50 @@ function startLine(raw: string, endLine: number): number {
   return endLine - (text.match(NEWLINES)?.length ?? 0)
 }
 
+interface CsvRecord {
+  record: string[]
+  /** Line where the record starts, counting from the top of the file. */
+  line: number
+}
+
+/**
+ * A file without a single quote character has no quoted fields, so each non-empty, non-comment line is one
+ * record split at the delimiter — the same records csv-parse returns (tests/etl/readers/csv.test.ts checks
+ * that), several times faster on large exports.
+ */
+export function splitPlain(lines: string[], skipped: number, delimiter: string): CsvRecord[] {
+  const out: CsvRecord[] = []
+  for (let i = skipped; i < lines.length; i++) {
+    const text = lines[i]!
+    if (text === '' || text.startsWith('#')) continue
+    out.push({ record: text.split(delimiter), line: i + 1 })
+  }
+  return out
+}
+
+/** Quoted CSV through csv-parse, with the line each record starts on. */
+export function parseQuoted(file: string, body: string, delimiter: string, skipped: number): CsvRecord[] {
+  let records: { record: string[]; raw: string; info: { lines: number } }[]
+  try {
+    // With `info` and `raw`, csv-parse returns { record, raw, info } objects; its types only know string[][].
+    records = parse(body, {
+      delimiter,
+      relax_column_count: true,
+      relax_quotes: true,
+      skip_empty_lines: true,
+      comment: '#',
+      comment_no_infix: true,
+      info: true,
+      raw: true,
+    }) as unknown as typeof records
+  } catch (error) {
+    const line = (error as { lines?: number }).lines
+    const where = line === undefined ? '' : `line ${line + skipped}: `
+    throw new ReadError(file, `not readable as CSV (${where}${error instanceof Error ? error.message : String(error)})`)
+  }
+  return records.map(({ record, raw, info }) => ({ record, line: startLine(raw, info.lines) + skipped }))
+}
+
 /**
  * Reads one CSV text (BOM already removed) as one table named after the file (`north-2019-levels.csv` → `levels`).
  * Leading `# key: value` lines go into `about`; other lines starting with `#` are comments. Values stay trimmed
@@ -39,32 +83,18 @@ export function readCsv(file: string, text: string, problems: Place[] = []): Raw
     skipped++
   }
   const body = lines.slice(skipped).join('\n')
-  let records: { record: string[]; raw: string; info: { lines: number } }[]
-  try {
-    // With `info` and `raw`, csv-parse returns { record, raw, info } objects; its types only know string[][].
-    records = parse(body, {
-      delimiter: detectDelimiter(lines[skipped] ?? ''),
-      relax_column_count: true,
-      relax_quotes: true,
-      skip_empty_lines: true,
-      comment: '#',
-      comment_no_infix: true,
-      info: true,
-      raw: true,
-    }) as unknown as typeof records
-  } catch (error) {
-    const line = (error as { lines?: number }).lines
-    const where = line === undefined ? '' : `line ${line + skipped}: `
-    throw new ReadError(file, `not readable as CSV (${where}${error instanceof Error ? error.message : String(error)})`)
-  }
+  const delimiter = detectDelimiter(lines[skipped] ?? '')
+  const records = body.includes('"') ? parseQuoted(file, body, delimiter, skipped) : splitPlain(lines, skipped, delimiter)
   const table = tableNameFromFile(file)
   const [header, ...rows] = records
-  const headerLine = header ? startLine(header.raw, header.info.lines) + skipped : undefined
   if (!header && table !== 'about') problems.push({ message: 'the file has no header line' })
-  const builder = new TableBuilder({}, header?.record ?? [], headerLine, (i) => `column ${i + 1}`, problems)
-  for (const { record, raw, info } of rows) {
-    const cells: RawCell[] = record.map((cell) => (cell.trim() === '' ? null : cell.trim()))
-    builder.add(startLine(raw, info.lines) + skipped, cells)
+  const builder = new TableBuilder({}, header?.record ?? [], header?.line, (i) => `column ${i + 1}`, problems)
+  for (const { record, line } of rows) {
+    const cells: RawCell[] = record.map((cell) => {
+      const t = cell.trim()
+      return t === '' ? null : t
+    })
+    builder.add(line, cells)
   }
   const bundle: RawBundle = { file, format: 'csv', about, tables: [], problems: problems.map((p) => ({ file, ...p })) }
   if (table === 'about') Object.assign(about, aboutFromTable(builder.table(table, file)))

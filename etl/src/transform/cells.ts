@@ -95,7 +95,7 @@ function parseTable(table: RawTable, name: TableName, units: 'us' | 'si' | undef
 
   const units_: Record<string, string | undefined> = Object.fromEntries(unitOf)
   return table.rows.map(raw => {
-    const row: TypedRow = { table: name, ...where, line: raw.line, values: {}, errors: tableErrors.map(e => ({ ...e, row: raw.line })), reviews: [] }
+    const row: TypedRow = { table: name, ...where, line: raw.line, values: {}, errors: tableErrors.length ? tableErrors.map(e => ({ ...e, row: raw.line })) : [], reviews: [] }
     for (const spec of specs) {
       const cell = raw.values[spec.name] ?? null
       const r = parseCell(spec, cell, units_[spec.name])

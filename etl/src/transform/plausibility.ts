@@ -11,8 +11,9 @@ export function suspectValue(spec: ColumnSpec, stored: number, asWritten: number
   const band = spec.plausible
   if (!band) return undefined
   const [lo, hi] = band
+  // Hot path: most values are in band, so decide that before any other work.
+  if (stored >= lo && stored <= hi) return undefined
   const inBand = (v: number) => v >= lo && v <= hi
-  if (inBand(stored)) return undefined
   const shown = unit ? `${asWritten} ${unit}` : String(asWritten)
   if (spec.quantity && unit) {
     for (const [other, factor] of Object.entries(IMPORT_UNIT_FACTORS[spec.quantity])) {
