@@ -5,7 +5,7 @@ import type { ImportProblem, ProjectRecord } from '@shared/history/types'
 import type { Db } from '../../api/src/db'
 import { importProblems, importRuns, projects } from '../../api/src/db/history-schema'
 import { loadProjects, upsertSuppliers } from './load'
-import { readBundle, ReadError } from './readers'
+import { applyFolderAbout, readBundle, ReadError } from './readers'
 import type { RawBundle } from './readers/types'
 import { transform } from './transform'
 
@@ -65,9 +65,7 @@ export async function runImport(db: Db, inputs: ImportInput[], options: RunOptio
     }
   }
   progress('read', inputs.length, inputs.length)
-  mergeFolderUnits(bundles)
-
-  const assembled = transform(bundles)
+  const assembled = transform(applyFolderAbout(bundles))
   assembled.problems = [...readProblems, ...assembled.problems]
   await flagDuplicates(db, assembled.projects)
   const queued = assembled.projects.reduce((n, p) => n + p.reviews.length, 0)
@@ -138,17 +136,6 @@ export async function runImport(db: Db, inputs: ImportInput[], options: RunOptio
 /** Reads files from disk for the CLI. */
 export async function readInputs(files: string[]): Promise<ImportInput[]> {
   return Promise.all(files.map(async file => ({ file, data: new Uint8Array(await readFile(file)) })))
-}
-
-/** A folder's about.csv gives its CSV files their units (docs/import-format.md). */
-function mergeFolderUnits(bundles: RawBundle[]) {
-  const folderOf = (f: string) => f.replace(/[\\/][^\\/]*$/, '')
-  const abouts = new Map<string, Record<string, string>>()
-  for (const b of bundles) if (b.format === 'csv' && b.tables.length === 0 && b.about.units) abouts.set(folderOf(b.file), b.about)
-  for (const b of bundles) {
-    const about = abouts.get(folderOf(b.file))
-    if (b.format === 'csv' && about && !b.about.units) b.about = { ...about, ...b.about }
-  }
 }
 
 /**

@@ -108,6 +108,15 @@ export async function readPaths(paths: string[]): Promise<RawBundle[]> {
       bundles.push(await readBundle(file))
     }
   }
+  return applyFolderAbout(bundles)
+}
+
+/**
+ * An `about.csv` (any CSV whose table is `about`) lends its declarations to the other CSV files of its
+ * folder, without overriding their own `# key: value` lines. The about bundles themselves are dropped
+ * unless they have problems (then kept without tables, so the problems are not lost).
+ */
+export function applyFolderAbout(bundles: RawBundle[]): RawBundle[] {
   const isAbout = (b: RawBundle) => b.format === 'csv' && b.tables.length === 0 && tableNameFromFile(b.file) === 'about'
   const folderAbout = new Map<string, Record<string, string>>()
   for (const bundle of bundles.filter(isAbout)) {
