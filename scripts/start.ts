@@ -5,7 +5,6 @@
  * Ctrl-C stops everything this script started.
  */
 import { spawnSync } from 'node:child_process'
-import { createHash } from 'node:crypto'
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs'
 import { randomBytes } from 'node:crypto'
 import { join, resolve } from 'node:path'
@@ -20,7 +19,7 @@ import { expandPaths } from '../etl/src/paths'
 import { readInputs, runImport } from '../etl/src/run'
 import { mailRunSummary } from '../etl/src/summary-mail'
 import { startMailSink, type MailSink } from './fakes/mail-sink'
-import { ensureDatabase, isReachableByPostgres, startCluster, type Cluster } from './lib/postgres'
+import { appDataDir, ensureDatabase, startCluster, type Cluster } from './lib/postgres'
 import { portOr } from './lib/ports'
 
 const ROOT = resolve(import.meta.dirname, '..')
@@ -30,15 +29,6 @@ function step(msg: string) {
   console.log(`\x1b[36m▸\x1b[0m ${msg}`)
 }
 
-function dataDirFor(): string {
-  const inRepo = join(ROOT, 'var', 'pgdata')
-  if (process.env.PGDATA_DIR) return resolve(process.env.PGDATA_DIR)
-  if (isReachableByPostgres(ROOT)) return inRepo
-  // The checkout sits somewhere the postgres user cannot enter (e.g. under /root):
-  // keep the cluster in a folder of its own, named after the checkout.
-  const tag = createHash('sha256').update(ROOT).digest('hex').slice(0, 10)
-  return `/var/tmp/backsight-${tag}/pgdata`
-}
 
 /** A secret kept in var/ so sessions survive a restart of `npm start`. */
 function sessionSecret(): string {
@@ -57,7 +47,7 @@ async function main() {
 
   if (!env.DATABASE_URL) {
     const port = Number(env.PGPORT ?? 55432)
-    const dataDir = dataDirFor()
+    const dataDir = appDataDir(ROOT)
     step(`Starting PostgreSQL on 127.0.0.1:${port} (data in ${dataDir})`)
     cluster = startCluster({ dataDir, port })
     await ensureDatabase(cluster.url('postgres'), 'backsight')

@@ -1,6 +1,7 @@
 import { execFileSync, spawnSync } from 'node:child_process'
 import { chownSync, existsSync, mkdirSync, readdirSync } from 'node:fs'
-import { dirname, join } from 'node:path'
+import { createHash } from 'node:crypto'
+import { dirname, join, resolve } from 'node:path'
 import pg from 'pg'
 
 /** Helpers to run a private PostgreSQL cluster from Debian's server packages, on 127.0.0.1 only. */
@@ -79,4 +80,19 @@ export async function ensureDatabase(adminUrl: string, database: string): Promis
   } finally {
     await client.end()
   }
+}
+
+/** Port of the cluster `npm start` runs (PGPORT, default 55432). */
+export const appPort = (env = process.env) => Number(env.PGPORT ?? 55432)
+
+/**
+ * Where `npm start` keeps its cluster for the checkout at `root`: PGDATA_DIR, else var/pgdata, or —
+ * when the checkout sits where the postgres user cannot enter (e.g. under /root) — a folder of its
+ * own named after the checkout.
+ */
+export function appDataDir(root: string): string {
+  if (process.env.PGDATA_DIR) return resolve(process.env.PGDATA_DIR)
+  if (isReachableByPostgres(root)) return join(root, 'var', 'pgdata')
+  const tag = createHash('sha256').update(root).digest('hex').slice(0, 10)
+  return `/var/tmp/backsight-${tag}/pgdata`
 }
