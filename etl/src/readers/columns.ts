@@ -40,6 +40,9 @@ export function tableNameFromFile(file: string): string {
 /** Where a problem is, without the file (the bundle adds it). */
 export type Place = Omit<ReaderProblem, 'file'>
 
+/** Names that would reach into an object's prototype: never read as columns. */
+const RESERVED_NAMES = new Set(['__proto__', 'constructor', 'prototype'])
+
 type Slot = { kind: 'column'; column: RawColumn } | { kind: 'duplicate' } | { kind: 'blank' }
 
 /**
@@ -70,6 +73,11 @@ export class TableBuilder {
       if (!column || column.name === '') {
         if (column) this.report(`${label(index)} header "${header}" has no name, only a unit`, headerLine)
         this.slots[index] = { kind: 'blank' }
+        return
+      }
+      if (RESERVED_NAMES.has(column.name)) {
+        this.report(`${label(index)} header "${header}" is a reserved word, not a column of the format; its values are ignored`, headerLine, column.name)
+        this.slots[index] = { kind: 'duplicate' }
         return
       }
       const first = seen.get(column.name)

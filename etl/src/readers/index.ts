@@ -34,7 +34,7 @@ function decodeText(file: string, data: Uint8Array, problems: Place[]): string {
   try {
     return new TextDecoder('utf-8', { fatal: true }).decode(data)
   } catch {
-    problems.push({ message: 'the text is not UTF-8; it was read as Windows-1252 (save it as UTF-8 to be sure)' })
+    problems.push({ severity: 'note', message: 'the text is not UTF-8; it was read as Windows-1252 (save it as UTF-8 to be sure)' })
     return new TextDecoder('windows-1252').decode(data)
   }
 }
@@ -65,7 +65,7 @@ export async function readBundle(file: string, data?: Uint8Array): Promise<RawBu
   if (startsWith(bytes, ascii('ARROW1')) || startsWith(bytes, [0xff, 0xff, 0xff, 0xff])) return readArrow(file, bytes)
   const problems: Place[] = []
   const text = decodeText(file, bytes, problems)
-  if (text.trimStart().startsWith('{')) {
+  if (/^\s*[{[]/.test(text)) {
     const bundle = readJson(file, text)
     return { ...bundle, problems: [...problems.map((p) => ({ file, ...p })), ...bundle.problems] }
   }

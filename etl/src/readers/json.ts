@@ -4,6 +4,26 @@ import { ReadError, type RawBundle, type RawCell } from './types'
 const isObject = (value: unknown): value is Record<string, unknown> =>
   typeof value === 'object' && value !== null && !Array.isArray(value)
 
+/** Deepest nesting read; the format needs three levels (document → table → row). */
+export const MAX_JSON_DEPTH = 32
+
+/** Deepest nesting of brackets and braces outside strings, in one pass over the text. */
+function nestingDepth(text: string): number {
+  let depth = 0
+  let max = 0
+  let inString = false
+  for (let i = 0; i < text.length; i++) {
+    const c = text.charCodeAt(i)
+    if (inString) {
+      if (c === 0x5c) i++ // backslash: skip the escaped character
+      else if (c === 0x22) inString = false
+    } else if (c === 0x22) inString = true
+    else if (c === 0x7b || c === 0x5b) max = Math.max(max, ++depth)
+    else if (c === 0x7d || c === 0x5d) depth--
+  }
+  return max
+}
+
 /** A JSON.parse message with its character position turned into a line number. */
 function describeSyntaxError(text: string, error: unknown): string {
   const message = error instanceof Error ? error.message : String(error)
@@ -27,6 +47,8 @@ function toCell(value: unknown, problem: (message: string) => void): RawCell {
  * objects is a table whose headers are the union of the row keys in first-seen order. Lines are the index + 1.
  */
 export function readJson(file: string, text: string): RawBundle {
+  const depth = nestingDepth(text)
+  if (depth > MAX_JSON_DEPTH) throw new ReadError(file, `the JSON is nested ${depth} levels deep; a history document needs 3 (at most ${MAX_JSON_DEPTH} are read)`)
   let document: unknown
   try {
     document = JSON.parse(text)
@@ -44,15 +66,15 @@ export function readJson(file: string, text: string): RawBundle {
       for (const [k, v] of Object.entries(value)) if (v !== null && !isObject(v)) bundle.about[toName(k)] = String(v).trim()
     } else if (Array.isArray(value)) {
       const headers = [...new Set(value.flatMap((row) => (isObject(row) ? Object.keys(row) : [])))]
-      const builder = new TableBuilder({}, headers, undefined, (i) => `"${key}" key "${headers[i]}"`, problems)
+      const builder = new TableBuilder({ sheet: key }, headers, undefined, (i) => `"${key}" key "${headers[i]}"`, problems)
       value.forEach((row, index) => {
         const line = index + 1
         if (!isObject(row)) {
-          problems.push({ line, message: `"${key}"[${index}] is not an object; skipped` })
+          problems.push({ sheet: key, line, message: `"${key}"[${index}] is not an object; skipped` })
           return
         }
         const cells = headers.map((header) =>
-          toCell(row[header], (message) => problems.push({ line, column: normalizeHeader(header).name, message: `"${key}"[${index}].${header}: ${message}` })),
+          toCell(row[header], (message) => problems.push({ sheet: key, line, column: normalizeHeader(header).name, message: `"${key}"[${index}].${header}: ${message}` })),
         )
         builder.add(line, cells)
       })

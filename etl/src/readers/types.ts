@@ -60,6 +60,8 @@ export interface ReaderProblem {
   /** The {@link RawColumn.name} concerned, when there is one. */
   column?: string
   message: string
+  /** 'note' for what does not stop a value loading (an encoding guessed); errors otherwise. */
+  severity?: 'note'
 }
 
 /**

@@ -1,6 +1,7 @@
 import ExcelJS from 'exceljs'
-import { aboutFromTable, normalizeHeader, TableBuilder, toIsoDate, toName, type Place } from './columns'
+import { aboutFromTable, KNOWN_TABLES, normalizeHeader, TableBuilder, toIsoDate, toName, type Place } from './columns'
 import { ReadError, type RawBundle, type RawCell } from './types'
+import { zipBombReason } from './zip-guard'
 
 /** `0` → `A`, `27` → `AB`. */
 function columnLetter(index: number): string {
@@ -45,6 +46,8 @@ function toCell(value: ExcelJS.CellValue, problem: (message: string) => void): R
  * the sheet `about` (columns `key`, `value`) goes into `about`. Fully empty rows and empty sheets are skipped.
  */
 export async function readXlsx(file: string, data: Uint8Array): Promise<RawBundle> {
+  const bomb = zipBombReason(data)
+  if (bomb) throw new ReadError(file, `refused as a workbook: ${bomb}`)
   const workbook = new ExcelJS.Workbook()
   try {
     // exceljs types its input as its own `Buffer` interface; at run time it takes a Node Buffer.
@@ -79,6 +82,9 @@ export async function readXlsx(file: string, data: Uint8Array): Promise<RawBundl
     const table = builder.table(toName(sheet.name), file)
     if (table.table === 'about') Object.assign(bundle.about, aboutFromTable(table))
     else bundle.tables.push(table)
+  }
+  if (bundle.tables.length === 0 && problems.length === 0) {
+    throw new ReadError(file, `the workbook has no tables to load (expected sheets named ${KNOWN_TABLES.filter((t) => t !== 'about').join(', ')}, each with a header row)`)
   }
   bundle.problems = problems.map((problem) => ({ file, ...problem }))
   return bundle

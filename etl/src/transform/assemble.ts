@@ -20,6 +20,9 @@ const bool = (v: TypedValue, fallback: boolean) => (typeof v === 'boolean' ? v :
 /** Angle the geometry implies must agree with the recorded angle within this (common practice, no source). */
 export const ANGLE_TOLERANCE_DEG = 1.0
 
+/** Errors listed for one project; the rest are counted in one closing line. */
+export const MAX_ERRORS_PER_PROJECT = 50
+
 export interface Assembled {
   projects: ProjectRecord[]
   suppliers: SupplierRecord[]
@@ -38,9 +41,12 @@ export function assemble(rows: TypedRow[], fileProblems: ImportProblem[]): Assem
   const byCode = new Map<string, Record<string, TypedRow[]>>()
   const suppliers = new Map<string, SupplierRecord>()
 
+  const errorCount = new Map<string, number>()
   const fail = (code: string, p: Omit<ImportProblem, 'severity' | 'projectCode'>) => {
     rejected.add(code)
-    problems.push({ severity: 'error', projectCode: code, ...p })
+    const n = (errorCount.get(code) ?? 0) + 1
+    errorCount.set(code, n)
+    if (n <= MAX_ERRORS_PER_PROJECT) problems.push({ severity: 'error', projectCode: code, ...p })
   }
 
   for (const row of rows) {
@@ -64,6 +70,12 @@ export function assemble(rows: TypedRow[], fileProblems: ImportProblem[]): Assem
   for (const [code, group] of byCode) {
     const record = buildProject(code, group, (p) => fail(code, p), problems)
     if (record && !rejected.has(code)) projects.push(record)
+  }
+  for (const [code, n] of errorCount) {
+    if (n > MAX_ERRORS_PER_PROJECT) {
+      const first = problems.find(p => p.projectCode === code && p.severity === 'error')!
+      problems.push({ severity: 'error', projectCode: code, file: first.file, sheet: first.sheet, message: `Project ${code}: and ${(n - MAX_ERRORS_PER_PROJECT).toLocaleString('en-US')} more errors like those above; fix them and run the import again to see the rest.` })
+    }
   }
   // A rejected project's notes would only distract from the errors that rejected it.
   const shown = problems.filter(p => !(p.severity === 'note' && p.projectCode !== undefined && rejected.has(p.projectCode)))

@@ -19,6 +19,10 @@ export interface TypedRow {
   reviews: ImportProblem[]
 }
 
+/** Text a spreadsheet would run as a formula (OWASP CSV injection: = + - @, tab, carriage return). */
+const FORMULA_LIKE = /^[=+\-@\t\r]/
+const EXPORT_ESCAPED = /^'[=+\-@\t\r]/
+
 const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/
 
 /** File-level default units from the `about` table: 'us' | 'si' | undefined (undeclared) | 'invalid'. */
@@ -36,7 +40,18 @@ function fileUnits(bundle: RawBundle, problems: ImportProblem[]): 'us' | 'si' | 
  * row errors on every row of that table, so each affected project is rejected and says why.
  */
 export function parseBundle(bundle: RawBundle): { rows: TypedRow[]; problems: ImportProblem[] } {
-  const problems: ImportProblem[] = bundle.problems.map(p => ({ severity: 'error' as const, file: p.file, sheet: p.sheet, row: p.line, column: p.column, message: p.message }))
+  const toProblem = (p: RawBundle['problems'][number]): ImportProblem => ({ severity: p.severity ?? 'error', file: p.file, sheet: p.sheet, row: p.line, column: p.column, message: p.message })
+  // A reader's error inside a known table (a duplicate or reserved header, cells beyond the header, a
+  // formula without a result) rejects the projects it touches: the row it names, or — for a header
+  // problem — every row of that table. Notes and problems outside any table stay file-level.
+  const known = bundle.tables.filter(t => t.table in TABLES)
+  const inTable = new Map<RawTable, ImportProblem[]>()
+  const problems: ImportProblem[] = []
+  for (const p of bundle.problems) {
+    const table = p.severity === 'note' ? undefined : known.find(t => t.sheet === p.sheet && t.file === p.file)
+    if (table) inTable.set(table, [...(inTable.get(table) ?? []), toProblem(p)])
+    else problems.push(toProblem(p))
+  }
   const units = fileUnits(bundle, problems)
   const rows: TypedRow[] = []
   for (const table of bundle.tables) {
@@ -50,7 +65,17 @@ export function parseBundle(bundle: RawBundle): { rows: TypedRow[]; problems: Im
       continue
     }
     // A loop, not push(...rows): a table can hold more rows than a call takes arguments.
-    for (const row of parseTable(table, table.table as TableName, units)) rows.push(row)
+    const parsed = parseTable(table, table.table as TableName, units)
+    const readerErrors = inTable.get(table) ?? []
+    if (readerErrors.length) {
+      const lines = new Set(table.rows.map(r => r.line))
+      for (const row of parsed) {
+        for (const e of readerErrors) if (e.row === row.line || e.row === undefined || !lines.has(e.row)) row.errors.push({ ...e, row: e.row ?? row.line })
+      }
+      // A table whose every row was empty still says what was wrong with it.
+      if (!parsed.length) for (const e of readerErrors) problems.push(e)
+    }
+    for (const row of parsed) rows.push(row)
   }
   return { rows, problems }
 }
@@ -122,8 +147,12 @@ function parseCell(spec: ColumnSpec, cell: RawCell, unit: string | undefined): {
   }
   switch (spec.type) {
     case 'text': {
-      const s = String(text)
-      return s.length > 200 ? { value: null, error: `${spec.name} is longer than 200 characters.` } : { value: s }
+      // Backsight's own CSV exports write a formula-like text as '=…; reading it back restores the text.
+      const s = EXPORT_ESCAPED.test(String(text)) ? String(text).slice(1) : String(text)
+      if (s.length > 200) return { value: null, error: `${spec.name} is longer than 200 characters.` }
+      return FORMULA_LIKE.test(s)
+        ? { value: s, review: `${spec.name} "${s.slice(0, 40)}" starts like a spreadsheet formula; it is kept as plain text and neutralised in every export — confirm it is meant.` }
+        : { value: s }
     }
     case 'boolean': {
       const b = typeof text === 'boolean' ? text : parseBooleanCell(String(text))

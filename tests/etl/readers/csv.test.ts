@@ -130,7 +130,7 @@ describe('readBundle (CSV)', () => {
     const bundle = await readBundle('projects.csv', bytes)
     expect(bundle.tables[0]!.rows).toEqual([{ line: 2, values: { project_code: 'KR-2021-003', name: 'Café Annex' } }])
     expect(bundle.problems).toEqual([
-      { file: 'projects.csv', message: 'the text is not UTF-8; it was read as Windows-1252 (save it as UTF-8 to be sure)' },
+      { file: 'projects.csv', severity: 'note', message: 'the text is not UTF-8; it was read as Windows-1252 (save it as UTF-8 to be sure)' },
     ])
   })
 

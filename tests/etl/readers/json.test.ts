@@ -20,8 +20,8 @@ describe('readBundle (JSON)', () => {
       format: 'json',
       about: { format: 'backsight-history', version: '1', units: 'us' },
       tables: [
-        { table: 'projects', file: 'history.json', columns: PROJECT_COLUMNS, rows: projectRows([1, 2]) },
-        { table: 'levels', file: 'history.json', columns: LEVEL_COLUMNS, rows: levelRows([1, 2, 3]) },
+        { table: 'projects', file: 'history.json', sheet: 'Projects', columns: PROJECT_COLUMNS, rows: projectRows([1, 2]) },
+        { table: 'levels', file: 'history.json', sheet: 'levels', columns: LEVEL_COLUMNS, rows: levelRows([1, 2, 3]) },
       ],
       problems: [],
     })
@@ -51,12 +51,14 @@ describe('readBundle (JSON)', () => {
     expect(bundle.problems).toEqual([
       {
         file: 'levels.json',
+        sheet: 'levels',
         line: 1,
         column: 'story_shear',
         message: '"levels"[0].story_shear: a cell holds an object; only text, numbers, true/false and null are read',
       },
       {
         file: 'levels.json',
+        sheet: 'levels',
         line: 2,
         column: 'story_shear',
         message: '"levels"[1].story_shear: a cell holds an array; only text, numbers, true/false and null are read',
