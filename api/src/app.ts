@@ -1,5 +1,6 @@
 import { existsSync } from 'node:fs'
 import { join, resolve } from 'node:path'
+import compression from 'compression'
 import connectPgSimple from 'connect-pg-simple'
 import { csrfSync } from 'csrf-sync'
 import express, { Router, type Express } from 'express'
@@ -20,6 +21,9 @@ import { requireAccess, type RouteSpec } from './routes/route-table'
 import { sizingRoutes } from './routes/sizing'
 import { userRoutes } from './routes/users'
 import { importRoutes } from './routes/imports'
+import { projectRoutes } from './routes/projects'
+import { precedentRoutes } from './routes/precedents'
+import { benchmarkRoutes } from './routes/benchmarks'
 import { createImportRunner, type ImportRunner } from './services/import-runner'
 import { markRunFailed } from './services/imports'
 
@@ -39,7 +43,7 @@ export interface AppDeps extends AppOptions {
 }
 
 /** Every route module, in mounting order. A new module is added here and nowhere else. */
-const ROUTE_MODULES = [healthRoutes, authRoutes, userRoutes, mailboxRoutes, sizingRoutes, importRoutes]
+const ROUTE_MODULES = [healthRoutes, authRoutes, userRoutes, mailboxRoutes, sizingRoutes, importRoutes, projectRoutes, precedentRoutes, benchmarkRoutes]
 
 /** Builds the Express app without listening, so tests can drive it through supertest. */
 export function createApp(options: AppOptions): Express {
@@ -70,6 +74,8 @@ export function createApp(options: AppOptions): Express {
       contentSecurityPolicy: { directives: { upgradeInsecureRequests: null } },
     }),
   )
+  // gzip for JSON, CSV, the built dashboard, and Arrow IPC streams (not in the compressible MIME list).
+  app.use(compression({ filter: (req, res) => /apache\.arrow/.test(String(res.getHeader('Content-Type') ?? '')) || compression.filter(req, res) }))
 
   const PgStore = connectPgSimple(session)
   const api = Router()

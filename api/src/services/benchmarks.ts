@@ -1,0 +1,124 @@
+import { and, eq, gte, inArray, lte, notExists, sql, type SQL } from 'drizzle-orm'
+import type { Role } from '@shared/auth/roles'
+import { buildGroups, describeCriteria, proposalFor, type Audience, type BenchmarkProject } from '@shared/benchmarks/groups'
+import { BENCHMARK_METRICS, METRIC_UNITS, MIN_PUBLISHED_GROUP, type BenchmarkQuery, type BenchmarkResponse, type ProposalBody, type ProposalResponse } from '@shared/schemas/benchmarks'
+import type { Db } from '../db'
+import { braces, braceSnapshots, frames, levels, projects, reviewItems, tonnage } from '../db/history-schema'
+
+/**
+ * Steel tonnage benchmarks over the finished projects (drafts and probable duplicates awaiting
+ * review left out). Confidentiality and suppression are applied by the shared `publishGroup` for
+ * the caller's role; nothing here sends a client name to anyone.
+ */
+
+export const BENCHMARK_CAUTIONS = [
+  'Benchmarks describe the firm’s past projects; they are a starting point for a fee proposal, not a design or a quantity take-off.',
+  'Tonnage scope differs between projects and offices (see each project’s scope); compare like with like.',
+  'Preliminary design aid: verify with the supplier’s qualified values and the governing code; the engineer of record decides.',
+]
+
+export const audienceOf = (role: Role | undefined): Audience => (role === 'bd' ? 'bd' : 'analyst')
+
+type Filters = Pick<BenchmarkQuery, 'yearFrom' | 'yearTo' | 'use' | 'sdc' | 'region'>
+
+/** Every finished project matching `filters`, with the figures the benchmarks need. */
+export async function loadBenchmarkProjects(db: Db, filters: Filters = {}): Promise<BenchmarkProject[]> {
+  const where: SQL[] = [
+    eq(projects.draft, false),
+    // A probable duplicate counts only once someone has confirmed it is a separate building.
+    notExists(
+      db
+        .select({ one: sql`1` })
+        .from(reviewItems)
+        .where(and(eq(reviewItems.projectCode, projects.code), eq(reviewItems.field, 'project'), eq(reviewItems.status, 'open'))),
+    ),
+  ]
+  if (filters.yearFrom !== undefined) where.push(gte(projects.yearDesigned, filters.yearFrom))
+  if (filters.yearTo !== undefined) where.push(lte(projects.yearDesigned, filters.yearTo))
+  if (filters.use?.length) where.push(inArray(projects.buildingUse, filters.use))
+  if (filters.sdc?.length) where.push(inArray(projects.sdc, filters.sdc))
+  if (filters.region?.length) where.push(inArray(projects.region, filters.region))
+  const rows = await db.select().from(projects).where(and(...where))
+  if (rows.length === 0) return []
+  const ids = rows.map(r => r.id)
+
+  const frameRows = await db
+    .select({
+      projectId: frames.projectId,
+      frames: sql<number>`count(distinct ${frames.id})`.mapWith(Number),
+      baseShear: sql<number | null>`sum(${levels.storyShearKip}) filter (where ${levels.levelIndex} = 1)`.mapWith(v => (v === null ? null : Number(v))),
+    })
+    .from(frames)
+    .leftJoin(levels, eq(levels.frameId, frames.id))
+    .where(inArray(frames.projectId, ids))
+    .groupBy(frames.projectId)
+
+  const coreRows = await db
+    .select({
+      projectId: frames.projectId,
+      braces: sql<number>`count(distinct ${braces.id})`.mapWith(Number),
+      withFinal: sql<number>`count(distinct ${braces.id}) filter (where ${braceSnapshots.id} is not null and ${braceSnapshots.coreAreaIn2} is not null)`.mapWith(Number),
+      coreArea: sql<number | null>`sum(${braces.braceCount} * ${braceSnapshots.coreAreaIn2})`.mapWith(v => (v === null ? null : Number(v))),
+    })
+    .from(braces)
+    .innerJoin(levels, eq(levels.id, braces.levelId))
+    .innerJoin(frames, eq(frames.id, levels.frameId))
+    .leftJoin(braceSnapshots, and(eq(braceSnapshots.braceId, braces.id), eq(braceSnapshots.governing, true), eq(braceSnapshots.confirmed, true)))
+    .where(inArray(frames.projectId, ids))
+    .groupBy(frames.projectId)
+
+  const tonRows = await db.select().from(tonnage).where(inArray(tonnage.projectId, ids))
+
+  const frameBy = new Map(frameRows.map(r => [r.projectId, r]))
+  const coreBy = new Map(coreRows.map(r => [r.projectId, r]))
+  return rows.map(r => {
+    const f = frameBy.get(r.id)
+    const c = coreBy.get(r.id)
+    const t: BenchmarkProject['tonnage'] = { preliminary: {}, final: {} }
+    for (const row of tonRows) if (row.projectId === r.id) t[row.stage][row.category] = row.tons
+    return {
+      code: r.code,
+      name: r.name,
+      clientConfidential: r.clientConfidential,
+      benchmarkPermitted: r.benchmarkPermitted,
+      buildingUse: r.buildingUse,
+      stories: r.stories,
+      sdc: r.sdc,
+      region: r.region,
+      yearDesigned: r.yearDesigned,
+      floorAreaFt2: r.floorAreaFt2,
+      frames: f?.frames ?? 0,
+      baseShearKip: f?.baseShear ?? null,
+      totalCoreAreaIn2: c && c.braces > 0 && c.withFinal === c.braces ? c.coreArea : null,
+      tonnage: t,
+    }
+  })
+}
+
+/** `GET /api/benchmarks` for a caller of `role`. */
+export async function benchmarks(db: Db, query: BenchmarkQuery, role: Role | undefined): Promise<BenchmarkResponse> {
+  const list = await loadBenchmarkProjects(db, query)
+  const audience = audienceOf(role)
+  const cautions = [...BENCHMARK_CAUTIONS]
+  if (audience === 'bd') cautions.push(`Groups of fewer than ${MIN_PUBLISHED_GROUP} projects are not published; confidential projects count in the figures but are never named.`)
+  return {
+    groupBy: query.groupBy,
+    units: query.units,
+    metricUnits: Object.fromEntries(BENCHMARK_METRICS.map(m => [m, METRIC_UNITS[m][query.units]])),
+    n: list.length,
+    groups: buildGroups(list, query.groupBy, query.units, audience),
+    cautions,
+  }
+}
+
+/** `POST /api/benchmarks/proposal`: the benchmark range and expected tonnage for one building. */
+export async function proposal(db: Db, body: ProposalBody): Promise<ProposalResponse> {
+  const { widened, ...result } = proposalFor(await loadBenchmarkProjects(db), body)
+  const cautions = [...BENCHMARK_CAUTIONS]
+  if (result.group) {
+    cautions.unshift(`Based on ${result.group.n} past projects (${describeCriteria(result.group.criteria)}); the range is their P25–P75.`)
+    if (widened.length) cautions.unshift(`No group of at least ${MIN_PUBLISHED_GROUP} projects matched ${widened[0]}; the comparison was widened to ${describeCriteria(result.group.criteria)}.`)
+    if (result.group.n < 10) cautions.push(`Only ${result.group.n} projects: treat the range as indicative.`)
+  } else cautions.unshift(`The history has fewer than ${MIN_PUBLISHED_GROUP} projects with tonnage and floor area to compare; no benchmark can be given.`)
+  return { ...result, cautions }
+}
