@@ -79,6 +79,11 @@ export function createApp(options: AppOptions): Express {
 
   const PgStore = connectPgSimple(session)
   const api = Router()
+  const routeTable: RouteSpec[] = ROUTE_MODULES.flatMap(m => m(deps))
+  for (const spec of routeTable.filter(r => r.sessionless)) {
+    if (spec.access !== 'public' || spec.method !== 'get') throw new Error(`${spec.path}: only public GET routes can be sessionless.`)
+    api.get(spec.path, ...(spec.before ?? []), spec.handler)
+  }
   api.use(express.json({ limit: '1mb' }))
   api.use(
     session({
@@ -94,8 +99,7 @@ export function createApp(options: AppOptions): Express {
   api.use(passport.initialize())
   api.use(passport.session())
 
-  const routeTable: RouteSpec[] = ROUTE_MODULES.flatMap(m => m(deps))
-  for (const spec of routeTable) {
+  for (const spec of routeTable.filter(r => !r.sessionless)) {
     // Access first (401/403 before anything else), then CSRF on state-changing methods.
     api[spec.method](spec.path, requireAccess(spec.access), csrf.csrfSynchronisedProtection, ...(spec.before ?? []), spec.handler)
   }

@@ -11,6 +11,7 @@ export function healthRoutes({ db }: AppDeps): RouteSpec[] {
       method: 'get',
       path: '/api/health',
       access: 'public',
+      sessionless: true,
       handler: async (_req, res) => {
         let database: 'up' | 'down' = 'up'
         try {

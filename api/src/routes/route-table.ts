@@ -13,6 +13,11 @@ export interface RouteSpec {
   /** Full path under the app, e.g. `/api/users/:userId`. */
   path: string
   access: Access
+  /**
+   * Served before the session is loaded (public GETs only): answers even when the session store —
+   * PostgreSQL — is down. `/api/health` needs this to report the database.
+   */
+  sessionless?: true
   /** Extra middleware run after the access check (rate limits, uploads). */
   before?: RequestHandler[]
   handler: RequestHandler
