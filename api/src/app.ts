@@ -21,6 +21,7 @@ import { requireAccess, type RouteSpec } from './routes/route-table'
 import { sizingRoutes } from './routes/sizing'
 import { userRoutes } from './routes/users'
 import { importRoutes } from './routes/imports'
+import { calibrationRoutes } from './routes/calibration'
 import { projectRoutes } from './routes/projects'
 import { precedentRoutes } from './routes/precedents'
 import { benchmarkRoutes } from './routes/benchmarks'
@@ -43,7 +44,7 @@ export interface AppDeps extends AppOptions {
 }
 
 /** Every route module, in mounting order. A new module is added here and nowhere else. */
-const ROUTE_MODULES = [healthRoutes, authRoutes, userRoutes, mailboxRoutes, sizingRoutes, importRoutes, projectRoutes, precedentRoutes, benchmarkRoutes]
+const ROUTE_MODULES = [healthRoutes, authRoutes, userRoutes, mailboxRoutes, sizingRoutes, importRoutes, projectRoutes, precedentRoutes, benchmarkRoutes, calibrationRoutes]
 
 /** Builds the Express app without listening, so tests can drive it through supertest. */
 export function createApp(options: AppOptions): Express {

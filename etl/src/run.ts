@@ -4,6 +4,7 @@ import { eq, sql } from 'drizzle-orm'
 import type { ImportProblem, ProjectRecord } from '@shared/history/types'
 import type { Db } from '../../api/src/db'
 import { importProblems, importRuns, projects } from '../../api/src/db/history-schema'
+import { refreshCalibrationPairs } from '../../api/src/db/calibration'
 import { loadProjects, upsertSuppliers } from './load'
 import { applyFolderAbout, readBundle, ReadError } from './readers'
 import type { RawBundle } from './readers/types'
@@ -118,6 +119,8 @@ export async function runImport(db: Db, inputs: ImportInput[], options: RunOptio
   summary.updated = result.updated.length
   summary.unchanged = result.unchanged.length
   summary.rejected += result.failed.length
+  // Analytics read the calibration pairs view: rebuild it from what was just loaded.
+  await refreshCalibrationPairs(db)
   summary.durationMs = Date.now() - t0
 
   for (let i = 0; i < summary.problems.length; i += 2_000) {

@@ -5,6 +5,7 @@ import { fromDisplay } from '@shared/units/systems'
 import type { Db } from '../db'
 import { braces, braceSnapshots, frames, levels, projects } from '../db/history-schema'
 import { auditLog } from '../db/schema'
+import { refreshCalibrationPairs } from '../db/calibration'
 
 /**
  * Saves a New frame worksheet as a draft project: its geometry, shears and assumed factors become
@@ -15,7 +16,7 @@ export async function createDraftProject(db: Db, actorId: number, name: string, 
   const result = sizeFrame(request)
   const sys = request.units
   const year = new Date().getUTCFullYear()
-  return db.transaction(async tx => {
+  const saved = await db.transaction(async tx => {
     // Serialise draft numbering so two saves at once cannot take the same code.
     await tx.execute(sql`select pg_advisory_xact_lock(hashtext('draft-codes'))`)
     const prefix = `DRAFT-${year}-`
@@ -70,4 +71,6 @@ export async function createDraftProject(db: Db, actorId: number, name: string, 
     await tx.insert(auditLog).values({ actorId, action: 'project.create-draft', entity: 'project', entityId: code, detail: { name, levels: result.levels.length } })
     return { projectId: project!.id, code }
   })
+  await refreshCalibrationPairs(db)
+  return saved
 }

@@ -5,6 +5,7 @@ import type { Db, DbOrTx } from '../db'
 import { braces, braceSnapshots, frames, levels, projects, reviewItems } from '../db/history-schema'
 import { auditLog } from '../db/schema'
 import { conflict, notFound } from '../errors'
+import { refreshCalibrationPairs } from '../db/calibration'
 
 /** Snapshot columns a reviewer may correct, by the import format's column name. */
 const CORRECTABLE = {
@@ -49,7 +50,7 @@ export async function listReviewItems(db: Db, status: ReviewItem['status'] | 'al
  * duplicate and "confirm" keeps it as a project of its own.
  */
 export async function resolveReviewItem(db: Db, actorId: number, itemId: number, body: ResolveReviewBody): Promise<ReviewItem> {
-  return db.transaction(async tx => {
+  const resolved = await db.transaction(async tx => {
     const [item] = await tx.select().from(reviewItems).where(eq(reviewItems.id, itemId)).for('update')
     if (!item) throw notFound('That review item')
     if (item.status !== 'open') throw conflict(`This item was already ${item.status}.`)
@@ -85,6 +86,9 @@ export async function resolveReviewItem(db: Db, actorId: number, itemId: number,
     const [after] = await listReviewItemsByIds(tx, [itemId])
     return after!
   })
+  // What analytics see changed (a value confirmed, corrected or discarded): rebuild the calibration pairs.
+  await refreshCalibrationPairs(db)
+  return resolved
 }
 
 async function confirmSnapshotIfClear(tx: DbOrTx, snapshotId: number) {

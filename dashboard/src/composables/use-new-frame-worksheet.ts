@@ -3,7 +3,9 @@ import { FALLBACK_SIZING_DEFAULTS, type SizingDefaults } from '@shared/schemas/s
 import { ApiError } from '../api/client'
 import { getSizingDefaults, getWorksheet, saveWorksheet } from '../api/sizing'
 import { useSessionStore } from '../stores/session'
+import { useWorksheetPrefillStore } from '../stores/worksheet-prefill'
 import { message } from '../utils/discrete'
+import { applyWorksheetPrefill } from '../utils/worksheet-prefill'
 import { basisFromDefaults, convertWorksheetForm, createWorksheetForm, maybeWorksheetForm, type WorksheetForm } from '../utils/worksheet-form'
 
 export type SaveStatus = 'idle' | 'pending' | 'saving' | 'saved' | 'failed'
@@ -20,6 +22,9 @@ export function useNewFrameWorksheet(saveDelayMs = 1000) {
   const loading = shallowRef(true)
   const saveStatus = shallowRef<SaveStatus>('idle')
   const savedAt = shallowRef<string | null>(null)
+  /** An update handed over by another screen (e.g. the starting factors) and applied on open: what it was and from where. */
+  const prefilledFrom = shallowRef<{ what: string; source: string }>()
+  const prefill = useWorksheetPrefillStore()
   let ready = false
   let timer: ReturnType<typeof setTimeout> | undefined
   let saving: Promise<void> | undefined
@@ -50,6 +55,12 @@ export function useNewFrameWorksheet(saveDelayMs = 1000) {
     loading.value = false
     await nextTick() // the deep watcher below has seen the loaded form by now: it is not a change to save
     ready = true
+    // Applied once, after loading, so it counts as a change and is saved like one typed by hand.
+    const offered = prefill.take()
+    if (offered) {
+      form.value = applyWorksheetPrefill(form.value, offered)
+      prefilledFrom.value = { what: offered.what, source: offered.source }
+    }
   }
 
   async function save() {
@@ -110,5 +121,5 @@ export function useNewFrameWorksheet(saveDelayMs = 1000) {
     }
   })
 
-  return { form, firmDefaults, loading, saveStatus, savedAt, resetToFirmDefaults, save }
+  return { form, firmDefaults, loading, saveStatus, savedAt, prefilledFrom, resetToFirmDefaults, save }
 }

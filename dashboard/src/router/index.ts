@@ -20,6 +20,9 @@ const BUILT: Partial<Record<Area, () => Promise<unknown>>> = {
   admin: () => import('../views/AdminView.vue'),
   'new-frame': () => import('../views/NewFrameView.vue'),
   imports: () => import('../views/ImportsView.vue'),
+  projects: () => import('../views/ProjectsView.vue'),
+  calibration: () => import('../views/CalibrationView.vue'),
+  'starting-factors': () => import('../views/StartingFactorsView.vue'),
 }
 
 const areaRoutes: RouteRecordRaw[] = AREAS.map(area => ({
@@ -49,6 +52,7 @@ const routes: RouteRecordRaw[] = [
     children: [
       { path: '', name: 'home', redirect: () => useSessionStore().homePath },
       ...areaRoutes,
+      { path: 'projects/:code', name: 'project', component: BUILT.projects!, meta: { area: 'projects', title: AREA_INFO.projects.label } },
       { path: 'account', name: 'account', component: () => import('../views/AccountView.vue'), meta: { title: 'Account' } },
       { path: 'forbidden', name: 'forbidden', component: () => import('../views/ForbiddenView.vue'), meta: { title: 'Not allowed' } },
       { path: ':pathMatch(.*)*', name: 'not-found', component: () => import('../views/NotFoundView.vue'), meta: { title: 'Not found' } },

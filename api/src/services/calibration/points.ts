@@ -1,0 +1,79 @@
+import { Dictionary, Float64, Int32, Table, Utf8, makeData, makeVector, tableToIPC, vectorFromArray } from 'apache-arrow'
+import type { CalibrationPoint, CalibrationPoints } from '@shared/schemas/calibration'
+import type { PointRows } from './answers'
+
+/** The points as the JSON answer (CalibrationPoints). */
+export function pointsJson(p: PointRows): CalibrationPoints {
+  const d = p.data
+  const col = d.q[p.quantity]
+  const points: CalibrationPoint[] = new Array(p.rows.length)
+  for (let k = 0; k < p.rows.length; k++) {
+    const r = p.rows[k]!
+    const pi = d.project[r]!
+    points[k] = {
+      braceId: d.braceId[r]!,
+      projectCode: d.projects.code[pi]!,
+      projectName: d.projects.name[pi]!,
+      frameLine: d.frameLine.values[d.frameLine.codes[r]!]!,
+      level: d.level.values[d.level.codes[r]!]!,
+      group: p.groups[p.group[k]!]!,
+      basis: col.bases[col.basis[r]!]!,
+      assumed: col.assumed[r]!,
+      final: col.final[r]!,
+    }
+  }
+  return { quantity: p.quantity, points }
+}
+
+/** Re-codes a column to a compact dictionary of the values these points use. */
+function dictionary(n: number, codeOf: (k: number) => number, valueOf: (code: number) => string) {
+  const remap = new Map<number, number>()
+  const values: string[] = []
+  const codes = new Int32Array(n)
+  for (let k = 0; k < n; k++) {
+    const c = codeOf(k)
+    let m = remap.get(c)
+    if (m === undefined) {
+      m = values.length
+      values.push(valueOf(c))
+      remap.set(c, m)
+    }
+    codes[k] = m
+  }
+  const type = new Dictionary(new Utf8(), new Int32())
+  return makeVector(makeData({ type, length: n, nullCount: 0, data: codes, dictionary: vectorFromArray(values, new Utf8()) }))
+}
+
+/**
+ * The same points as an Arrow IPC stream: the columns of CalibrationPoint (braceId Int32,
+ * assumed/final Float64, string columns dictionary-encoded) and the quantity in the schema
+ * metadata (`quantity`).
+ */
+export function pointsArrow(p: PointRows): Uint8Array {
+  const d = p.data
+  const col = d.q[p.quantity]
+  const n = p.rows.length
+  const rows = p.rows
+  const braceId = new Int32Array(n)
+  const assumed = new Float64Array(n)
+  const final = new Float64Array(n)
+  for (let k = 0; k < n; k++) {
+    const r = rows[k]!
+    braceId[k] = d.braceId[r]!
+    assumed[k] = col.assumed[r]!
+    final[k] = col.final[r]!
+  }
+  const table = new Table({
+    braceId: makeVector(makeData({ type: new Int32(), length: n, nullCount: 0, data: braceId })),
+    projectCode: dictionary(n, k => d.project[rows[k]!]!, c => d.projects.code[c]!),
+    projectName: dictionary(n, k => d.project[rows[k]!]!, c => d.projects.name[c]!),
+    frameLine: dictionary(n, k => d.frameLine.codes[rows[k]!]!, c => d.frameLine.values[c]!),
+    level: dictionary(n, k => d.level.codes[rows[k]!]!, c => d.level.values[c]!),
+    group: dictionary(n, k => p.group[k]!, c => p.groups[c]!),
+    basis: dictionary(n, k => col.basis[rows[k]!]!, c => col.bases[c]!),
+    assumed: makeVector(makeData({ type: new Float64(), length: n, nullCount: 0, data: assumed })),
+    final: makeVector(makeData({ type: new Float64(), length: n, nullCount: 0, data: final })),
+  })
+  table.schema.metadata.set('quantity', p.quantity)
+  return tableToIPC(table, 'stream')
+}
