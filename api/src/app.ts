@@ -25,6 +25,7 @@ import { calibrationRoutes } from './routes/calibration'
 import { projectRoutes } from './routes/projects'
 import { precedentRoutes } from './routes/precedents'
 import { benchmarkRoutes } from './routes/benchmarks'
+import { overviewRoutes } from './routes/overview'
 import { createImportRunner, type ImportRunner } from './services/import-runner'
 import { markRunFailed } from './services/imports'
 
@@ -44,7 +45,7 @@ export interface AppDeps extends AppOptions {
 }
 
 /** Every route module, in mounting order. A new module is added here and nowhere else. */
-const ROUTE_MODULES = [healthRoutes, authRoutes, userRoutes, mailboxRoutes, sizingRoutes, importRoutes, projectRoutes, precedentRoutes, benchmarkRoutes, calibrationRoutes]
+const ROUTE_MODULES = [healthRoutes, authRoutes, userRoutes, mailboxRoutes, sizingRoutes, importRoutes, projectRoutes, precedentRoutes, benchmarkRoutes, calibrationRoutes, overviewRoutes]
 
 /** Builds the Express app without listening, so tests can drive it through supertest. */
 export function createApp(options: AppOptions): Express {

@@ -48,7 +48,7 @@ export interface AreaInfo {
 const analysts = ['principal', 'engineer'] as const
 
 export const AREA_INFO: Record<Area, AreaInfo> = {
-  overview: { label: 'Overview', path: '/overview', roles: analysts, summary: 'The firm’s BRB history at a glance.' },
+  overview: { label: 'Overview', path: '/overview', roles: ['principal', 'engineer', 'bd'], summary: 'The firm’s BRB history at a glance.' },
   calibration: {
     label: 'Calibration review',
     path: '/calibration',
@@ -109,7 +109,7 @@ export const HOME_AREA: Record<Role, Area> = {
   admin: 'admin',
   principal: 'overview',
   engineer: 'overview',
-  bd: 'benchmarks',
+  bd: 'overview',
 }
 
 /** Where a role lands after sign-in. */

@@ -144,3 +144,21 @@ export const ProposalResponse = z.object({
   cautions: z.array(z.string()),
 })
 export type ProposalResponse = z.infer<typeof ProposalResponse>
+
+/**
+ * `POST /api/benchmarks/proposal/email` (principal, bd): the proposal sheet of `profile` as a PDF
+ * attachment to `to`. `POST /api/benchmarks/proposal.pdf` takes a `ProposalBody` and answers the PDF.
+ */
+export const ProposalEmailBody = z
+  .object({
+    profile: ProposalBody,
+    to: z.email({ message: 'Enter the recipient’s e-mail address.' }).max(200),
+  })
+  .strict()
+export type ProposalEmailBody = z.infer<typeof ProposalEmailBody>
+
+export const ProposalEmailSent = z.object({ to: z.string(), fileName: z.string() })
+export type ProposalEmailSent = z.infer<typeof ProposalEmailSent>
+
+/** Proposal e-mails one user may send per hour (a sheet goes to a client or a colleague, not to a list). */
+export const PROPOSAL_EMAILS_PER_HOUR = 10

@@ -88,6 +88,8 @@ export type FeatureContribution = z.infer<typeof FeatureContribution>
 export const PrecedentLevel = z.object({
   level: z.string(),
   levelIndex: z.number().int(),
+  /** Story height of the level, in. */
+  storyHeightIn: z.number(),
   storyShearKip: z.number(),
   preliminaryCoreAreaIn2: z.number().nullable(),
   finalCoreAreaIn2: z.number().nullable(),
@@ -101,6 +103,10 @@ export const PrecedentMatch = z.object({
   name: z.string(),
   frameLine: z.string(),
   yearDesigned: z.number().int().nullable(),
+  /** The frame line's geometry (what "Start from this precedent" carries): configuration, braced bays, bay width in in. */
+  configuration: z.enum(CONFIGURATIONS),
+  bays: z.number().int(),
+  bayWidthIn: z.number(),
   /** exp(−D), 1 = identical on every feature used. */
   similarity: z.number(),
   /** D = Σ w·d / Σ w. */

@@ -5,6 +5,8 @@ export interface OutgoingMail {
   to: string
   subject: string
   text: string
+  /** Files sent with the message (e.g. a PDF). */
+  attachments?: { filename: string; content: Buffer; contentType: string }[]
 }
 
 export interface Mailer {
@@ -28,7 +30,7 @@ export function createMailer(smtp: Config['smtp']): Mailer {
   })
   return {
     async send(mail) {
-      await transport.sendMail({ from: smtp.from, to: mail.to, subject: mail.subject, text: mail.text })
+      await transport.sendMail({ from: smtp.from, to: mail.to, subject: mail.subject, text: mail.text, attachments: mail.attachments })
     },
     close: () => transport.close(),
   }

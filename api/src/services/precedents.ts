@@ -1,6 +1,6 @@
 import { and, eq, inArray, sql } from 'drizzle-orm'
 import { rankPrecedents, type PrecedentCandidate, type PrecedentQuery } from '@shared/precedents/similarity'
-import { DEFAULT_PRECEDENT_WEIGHTS, type PrecedentSearchBody, type PrecedentSearchResponse } from '@shared/schemas/precedents'
+import { DEFAULT_PRECEDENT_WEIGHTS, type PrecedentMatch, type PrecedentSearchBody, type PrecedentSearchResponse } from '@shared/schemas/precedents'
 import { DESIGN_CAUTIONS } from '@shared/schemas/projects'
 import { lateralTons } from '@shared/benchmarks/groups'
 import { LB_PER_SHORT_TON } from '@shared/units/constants'
@@ -23,6 +23,7 @@ interface Candidate extends PrecedentCandidate {
   name: string
   yearDesigned: number | null
   floorAreaFt2: number | null
+  bays: number
 }
 
 export async function loadCandidates(db: Db): Promise<Candidate[]> {
@@ -35,6 +36,7 @@ export async function loadCandidates(db: Db): Promise<Candidate[]> {
       yearDesigned: projects.yearDesigned,
       floorAreaFt2: projects.floorAreaFt2,
       frameLine: frames.frameLine,
+      bays: frames.bays,
       configuration: sql<string>`${frames.configuration}::text`,
       bayWidth: frames.bayWidthIn,
       projectStories: projects.stories,
@@ -83,7 +85,7 @@ export async function searchPrecedents(db: Db, body: PrecedentSearchBody): Promi
 
   const levelRows = frameIds.length
     ? await db
-        .select({ frameId: levels.frameId, level: levels.name, levelIndex: levels.levelIndex, storyShearKip: levels.storyShearKip, braceId: braces.id })
+        .select({ frameId: levels.frameId, level: levels.name, levelIndex: levels.levelIndex, storyHeightIn: levels.storyHeightIn, storyShearKip: levels.storyShearKip, braceId: braces.id })
         .from(levels)
         .leftJoin(braces, eq(braces.levelId, levels.id))
         .where(inArray(levels.frameId, frameIds))
@@ -113,6 +115,9 @@ export async function searchPrecedents(db: Db, body: PrecedentSearchBody): Promi
         name: c.name,
         frameLine: c.frameLine,
         yearDesigned: c.yearDesigned,
+        configuration: c.configuration as PrecedentMatch['configuration'],
+        bays: c.bays,
+        bayWidthIn: c.bayWidth ?? 0,
         similarity: r.similarity,
         distance: r.distance,
         breakdown: r.breakdown,
@@ -124,6 +129,7 @@ export async function searchPrecedents(db: Db, body: PrecedentSearchBody): Promi
             return {
               level: l.level,
               levelIndex: l.levelIndex,
+              storyHeightIn: l.storyHeightIn,
               storyShearKip: l.storyShearKip,
               preliminaryCoreAreaIn2: sd?.coreAreaIn2 ?? null,
               finalCoreAreaIn2: fin?.coreAreaIn2 ?? null,

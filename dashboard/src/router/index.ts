@@ -23,6 +23,9 @@ const BUILT: Partial<Record<Area, () => Promise<unknown>>> = {
   projects: () => import('../views/ProjectsView.vue'),
   calibration: () => import('../views/CalibrationView.vue'),
   'starting-factors': () => import('../views/StartingFactorsView.vue'),
+  overview: () => import('../views/OverviewView.vue'),
+  precedents: () => import('../views/PrecedentsView.vue'),
+  benchmarks: () => import('../views/BenchmarksView.vue'),
 }
 
 const areaRoutes: RouteRecordRaw[] = AREAS.map(area => ({
