@@ -13,6 +13,7 @@ import { createPassport } from './auth'
 import type { Config } from './config'
 import type { Db } from './db'
 import type { Mailer } from './mail/mailer'
+import { createOutboxMailer, type OutboxMailer } from './mail/outbox'
 import { apiNotFound, errorHandler } from './middleware/error-handler'
 import { authRoutes } from './routes/auth'
 import { healthRoutes } from './routes/health'
@@ -38,7 +39,9 @@ export interface AppOptions {
   importRunner?: ImportRunner
 }
 
-export interface AppDeps extends AppOptions {
+export interface AppDeps extends Omit<AppOptions, 'mailer'> {
+  /** The app's mailer: the outbox in front of the transport it was given. */
+  mailer: OutboxMailer
   passport: ReturnType<typeof createPassport>
   csrf: ReturnType<typeof csrfSync>
   importRunner: ImportRunner
@@ -58,7 +61,10 @@ export function createApp(options: AppOptions): Express {
     if (code === 0) return
     void markRunFailed(options.db, runId, `The loader process stopped before finishing (exit code ${code ?? 'none'}). Nothing of the unfinished batch was kept; run it again.`).catch(() => {})
   })
-  const deps: AppDeps = { ...options, passport, csrf, importRunner }
+  // Every message goes through the outbox: kept first, delivered now or when the mail service is back.
+  const mailer = createOutboxMailer(options.db, options.mailer)
+  if (config.env !== 'test') mailer.start()
+  const deps: AppDeps = { ...options, mailer, passport, csrf, importRunner }
 
   const app = express()
   app.disable('x-powered-by')
@@ -109,6 +115,7 @@ export function createApp(options: AppOptions): Express {
   app.use(api)
   app.locals.routeTable = routeTable
   app.locals.importRunner = importRunner
+  app.locals.mailer = mailer
 
   if (config.dashboardDist) serveDashboard(app, resolve(config.dashboardDist))
   app.use(errorHandler)

@@ -2,6 +2,7 @@ import { Passport } from 'passport'
 import { Strategy as LocalStrategy } from 'passport-local'
 import type { Db } from './db'
 import { checkPassword } from './services/passwords'
+import { clearSignInFailures, recordFailedSignIn } from './services/sign-in-backoff'
 import { findUserByEmail, findUserById, toUser } from './services/users'
 
 /**
@@ -15,9 +16,12 @@ export function createPassport(db: Db): InstanceType<typeof Passport> {
     new LocalStrategy({ usernameField: 'email', passwordField: 'password' }, (email, password, done) => {
       void (async () => {
         const row = await findUserByEmail(db, email)
+        if (row?.signInBlockedUntil && row.signInBlockedUntil > new Date()) return done(null, false, { message: 'blocked', blockedUntil: row.signInBlockedUntil } as { message: string })
         // checkPassword always pays for one bcrypt comparison, user or not.
         const ok = await checkPassword(password, row?.passwordHash)
+        if (row && !ok) await recordFailedSignIn(db, row.id)
         if (!row || !ok || !row.active) return done(null, false)
+        if (row.failedSignIns > 0) await clearSignInFailures(db, row.id)
         done(null, toUser(row))
       })().catch(done)
     }),

@@ -3,6 +3,7 @@ import type { Db } from '../../api/src/db'
 import { users } from '../../api/src/db/schema'
 import { loadConfig, type Config } from '../../api/src/config'
 import { createMailer } from '../../api/src/mail/mailer'
+import { createOutboxMailer } from '../../api/src/mail/outbox'
 import type { RunSummary } from './run'
 
 export interface Exceedance {
@@ -49,7 +50,7 @@ export async function findExceedances(db: Db, runId: number): Promise<Exceedance
 const f2 = (v: number | null) => (v === null ? '—' : v.toFixed(2))
 const f0 = (v: number | null) => (v === null ? '—' : v.toFixed(0))
 
-/** E-mails the run's summary to every active principal. Returns how many were sent (0 when mail is down). */
+/** E-mails the run's summary to every active principal (kept in the outbox until delivered). Returns how many it was addressed to. */
 export async function mailRunSummary(db: Db, summary: RunSummary, smtp: Config['smtp'] = loadConfig(process.env).smtp): Promise<number> {
   if (summary.runId === null) return 0
   const principals = await db.select({ email: users.email }).from(users).where(and(eq(users.role, 'principal'), eq(users.active, true)))
@@ -75,7 +76,8 @@ export async function mailRunSummary(db: Db, summary: RunSummary, smtp: Config['
     '',
     'Backsight is a preliminary design aid. Verify with the supplier’s qualified values and the governing code and edition; the engineer of record decides.',
   ].join('\n')
-  const mailer = createMailer(smtp)
+  // Through the outbox: with the mail service down the summary waits there and the app delivers it later.
+  const mailer = createOutboxMailer(db, createMailer(smtp))
   try {
     await mailer.send({ to: principals.map(p => p.email).join(', '), subject: `Backsight import run ${summary.runId}: ${byProject.size} project(s) with braces above their assumed strengths`, text })
     return principals.length

@@ -19,6 +19,10 @@ export const users = pgTable(
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
     lastSignInAt: timestamp('last_sign_in_at', { withTimezone: true }),
+    /** Wrong passwords in a row since the last good sign-in (api/src/services/sign-in-backoff.ts). */
+    failedSignIns: integer('failed_sign_ins').notNull().default(0),
+    /** Sign-in refused until then; a password reset lifts it. */
+    signInBlockedUntil: timestamp('sign_in_blocked_until', { withTimezone: true }),
   },
   t => [uniqueIndex('users_email_key').on(sql`lower(${t.email})`)],
 )
@@ -87,4 +91,26 @@ export const worksheets = pgTable(
     updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
   },
   t => [uniqueIndex('worksheets_user_kind_key').on(t.userId, t.kind)],
+)
+
+/**
+ * Every e-mail, kept until the mail service has taken it: a message that cannot be delivered now
+ * (the service is down) is retried until it goes (api/src/mail/outbox.ts).
+ */
+export const outbox = pgTable(
+  'outbox',
+  {
+    id: serial('id').primaryKey(),
+    to: varchar('to', { length: 254 }).notNull(),
+    subject: varchar('subject', { length: 300 }).notNull(),
+    text: text('text').notNull(),
+    /** Attachments with base64 content. */
+    attachments: jsonb('attachments'),
+    attempts: integer('attempts').notNull().default(0),
+    lastError: text('last_error'),
+    createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
+    nextAttemptAt: timestamp('next_attempt_at', { withTimezone: true }).notNull().defaultNow(),
+    sentAt: timestamp('sent_at', { withTimezone: true }),
+  },
+  t => [index('outbox_pending_idx').on(t.nextAttemptAt).where(sql`${t.sentAt} is null`)],
 )

@@ -10,7 +10,8 @@ export interface OutgoingMail {
 }
 
 export interface Mailer {
-  send(mail: OutgoingMail): Promise<void>
+  /** Rejects when the transport refuses the message; the outbox mailer answers whether it went now. */
+  send(mail: OutgoingMail): Promise<boolean | void>
   close(): void
 }
 

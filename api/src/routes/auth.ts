@@ -55,8 +55,12 @@ export function authRoutes({ db, passport, mailer, config, csrf }: AppDeps): Rou
       before: [signInLimit],
       handler: (req, res, next) => {
         SignInBody.parse(req.body)
-        passport.authenticate('local', (err: unknown, user: User | false) => {
+        passport.authenticate('local', (err: unknown, user: User | false, info?: { blockedUntil?: Date }) => {
           if (err) return next(err)
+          if (info?.blockedUntil) {
+            const minutes = Math.max(1, Math.ceil((info.blockedUntil.getTime() - Date.now()) / 60_000))
+            return next(new HttpError(429, 'RATE_LIMITED', `Too many wrong passwords for this account. Try again in ${minutes} minute${minutes === 1 ? '' : 's'}, or reset your password from the sign-in page.`))
+          }
           if (!user) return next(new HttpError(401, 'UNAUTHENTICATED', SIGN_IN_FAILED))
           const csrfToken = req.session.csrfToken
           // logIn regenerates the session (a new id: no fixation). Carry the CSRF token over

@@ -7,8 +7,8 @@ import type { RouteSpec } from './route-table'
 export function userRoutes({ db, mailer, config }: AppDeps): RouteSpec[] {
   async function sendInvite(email: string, name: string, token: string, log?: { error: (o: object, m: string) => void }) {
     try {
-      await mailer.send(inviteMail(email, name, `${config.publicUrl}/set-password?token=${token}`, INVITE_HOURS))
-      return true
+      // False when the mail service is down: the invitation waits in the outbox and goes when it is back.
+      return await mailer.send(inviteMail(email, name, `${config.publicUrl}/set-password?token=${token}`, INVITE_HOURS))
     } catch (err) {
       log?.error({ err }, 'invitation mail failed')
       return false

@@ -142,7 +142,8 @@ export async function setPasswordWithToken(db: Db, token: string, password: stri
       .where(and(eq(userTokens.id, live.token.id), isNull(userTokens.usedAt)))
       .returning({ id: userTokens.id })
     if (claimed.length === 0) return undefined
-    const [user] = await tx.update(users).set({ passwordHash, updatedAt: new Date() }).where(eq(users.id, live.user.id)).returning()
+    // A reset lifts any sign-in block: the owner proved they read the account's mailbox.
+    const [user] = await tx.update(users).set({ passwordHash, failedSignIns: 0, signInBlockedUntil: null, updatedAt: new Date() }).where(eq(users.id, live.user.id)).returning()
     await tx.insert(auditLog).values({
       actorId: live.user.id,
       action: live.token.kind === 'invite' ? 'user.accept-invite' : 'user.reset-password',
