@@ -1,5 +1,5 @@
 /**
- * `npm run etl -- <files or folders…> [--dry-run]`: loads project history files into the database
+ * `npm run etl -- <files or folders…> [--dry-run] [--replace-edits]`: loads project history files into the database
  * named by DATABASE_URL. Prints progress and a summary; exits 1 when anything was rejected.
  */
 import { parseArgs } from 'node:util'
@@ -15,11 +15,11 @@ import { originalOf, readInputs, runImport } from './run'
 async function main() {
   const { values, positionals } = parseArgs({
     allowPositionals: true,
-    options: { 'dry-run': { type: 'boolean' }, quiet: { type: 'boolean' }, run: { type: 'string' } },
+    options: { 'dry-run': { type: 'boolean' }, 'replace-edits': { type: 'boolean' }, quiet: { type: 'boolean' }, run: { type: 'string' } },
   })
   if (values.run) return runQueued(Number(values.run))
   if (positionals.length === 0) {
-    console.error('Usage: npm run etl -- <files or folders…> [--dry-run]')
+    console.error('Usage: npm run etl -- <files or folders…> [--dry-run] [--replace-edits]')
     process.exit(2)
   }
   const url = process.env.DATABASE_URL
@@ -36,6 +36,7 @@ async function main() {
     const summary = await runImport(db, await readInputs(files), {
       source: 'cli',
       dryRun: values['dry-run'],
+      replaceEdited: values['replace-edits'],
       onProgress: (stage, done, total) => {
         if (!bar) return
         if (stage !== started) {

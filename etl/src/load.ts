@@ -45,19 +45,34 @@ export async function upsertSuppliers(db: DbOrTx, list: SupplierRecord[]): Promi
 export async function loadProjects(
   db: Db,
   records: ProjectRecord[],
-  { runId, onProgress }: { runId?: number; onProgress?: (done: number, total: number) => void } = {},
+  { runId, onProgress, replaceEdited = false }: { runId?: number; onProgress?: (done: number, total: number) => void; replaceEdited?: boolean } = {},
 ): Promise<LoadResult> {
   const result: LoadResult = { loaded: [], updated: [], unchanged: [], failed: [] }
   const hashes = new Map(records.map(r => [r.fields.code, hashProject(r)]))
   const existing = new Map<string, string | null>()
+  const edited = new Map<string, Date>()
   for (let i = 0; i < records.length; i += 5_000) {
     const codes = records.slice(i, i + 5_000).map(r => r.fields.code)
-    const rows = await db.select({ code: projects.code, hash: projects.contentHash }).from(projects).where(inArray(projects.code, codes))
-    for (const row of rows) existing.set(row.code, row.hash)
+    const rows = await db.select({ code: projects.code, hash: projects.contentHash, editedAt: projects.editedAt }).from(projects).where(inArray(projects.code, codes))
+    for (const row of rows) {
+      existing.set(row.code, row.hash)
+      if (row.editedAt) edited.set(row.code, row.editedAt)
+    }
   }
   const todo = records.filter(r => {
     if (existing.get(r.fields.code) === hashes.get(r.fields.code)) {
       result.unchanged.push(r.fields.code)
+      return false
+    }
+    // The rule for an edit racing an import: the edit made in Backsight is never overwritten
+    // silently. The project is refused (the file keeps it) until the file carries the edit, or
+    // the import is run on purpose to replace it (`--replace-edits`).
+    const at = edited.get(r.fields.code)
+    if (at && !replaceEdited) {
+      result.failed.push({
+        code: r.fields.code,
+        message: `it was changed in Backsight on ${at.toISOString().slice(0, 16).replace('T', ' ')} UTC, after its last import, and this file would overwrite that change. Export the project, bring the file up to date, and import again — or run the import with --replace-edits to let the file win.`,
+      })
       return false
     }
     return true
@@ -153,7 +168,7 @@ async function writeProjects(db: Db, batch: ProjectRecord[], hashes: Map<string,
     const now = new Date()
     const rows = batch.map(r => {
       const { supplierCode, ...f } = r.fields
-      return { ...f, supplierId: supplierCode ? supplierIds.get(supplierCode)! : null, contentHash: hashes.get(r.fields.code)!, importRunId: runId ?? null, updatedAt: now, draft: false }
+      return { ...f, supplierId: supplierCode ? supplierIds.get(supplierCode)! : null, contentHash: hashes.get(r.fields.code)!, importRunId: runId ?? null, updatedAt: now, editedAt: null, draft: false }
     })
     const keys = Object.keys(rows[0]!) as (keyof (typeof rows)[number])[]
     const sqlCols = keys.map(k => `"${PROJECT_COLUMNS[k as keyof typeof PROJECT_COLUMNS].name}"`)

@@ -23,6 +23,8 @@ export interface RunOptions {
   /** An import run created beforehand (an upload): the run is recorded there. */
   runId?: number
   onProgress?: (stage: string, done: number, total: number) => void
+  /** Let the file replace projects changed in Backsight since their last import (refused otherwise). */
+  replaceEdited?: boolean
 }
 
 /** Largest original kept with a run, so it can be audited or replayed. */
@@ -112,7 +114,7 @@ export async function runImport(db: Db, inputs: ImportInput[], options: RunOptio
 
   await upsertSuppliers(db, assembled.suppliers)
   progress('load', 0, assembled.projects.length)
-  const result = await loadProjects(db, assembled.projects, { runId: run.id, onProgress: (d, t) => progress('load', d, t) })
+  const result = await loadProjects(db, assembled.projects, { runId: run.id, replaceEdited: options.replaceEdited, onProgress: (d, t) => progress('load', d, t) })
   progress('load', assembled.projects.length, assembled.projects.length)
   for (const f of result.failed) summary.problems.push({ severity: 'error', projectCode: f.code, file: inputs[0]?.file ?? '', message: `Could not be stored: ${f.message}` })
   summary.loaded = result.loaded.length

@@ -283,6 +283,12 @@ const positive = (what: string) => z.number({ error: `must be a number (${what})
  * `PATCH /api/projects/:code`: the whitelisted project fields an engineer or principal may edit
  * (stored units: ft, ft²). Strict: an unknown field is a 400 naming it. At least one field.
  */
+/**
+ * The project's `updatedAt` as the editor loaded it. When the project has changed since (an import,
+ * another user), the edit is refused with 409 and nothing is stored: reload and apply it again.
+ */
+const ExpectedUpdatedAt = z.iso.datetime({ offset: true, message: 'must be the project’s updatedAt as loaded (ISO date-time).' }).optional()
+
 export const PatchProjectBody = z
   .object({
     name: z.string().trim().min(1, { message: 'Name the project.' }).max(200).optional(),
@@ -305,9 +311,10 @@ export const PatchProjectBody = z
     supplierCode: z.string().trim().min(1).max(40).nullable().optional(),
     /** False finishes a draft project. */
     draft: z.boolean().optional(),
+    expectedUpdatedAt: ExpectedUpdatedAt,
   })
   .strict()
-  .refine(b => Object.keys(b).length > 0, { message: 'Change at least one field.', path: ['(body)'] })
+  .refine(b => Object.keys(b).some(k => k !== 'expectedUpdatedAt'), { message: 'Change at least one field.', path: ['(body)'] })
 export type PatchProjectBody = z.infer<typeof PatchProjectBody>
 
 /**
@@ -336,6 +343,7 @@ export const CreateSnapshotBody = z
     yieldLengthRatio: z.number().finite().gt(0, { message: 'must be greater than 0.' }).max(1, { message: 'must be at most 1 (Ly/Lwp).' }).nullable().optional(),
     /** Take this snapshot as the brace's final (clears the mark on the brace's other snapshots). */
     governing: z.boolean().default(false),
+    expectedUpdatedAt: ExpectedUpdatedAt,
   })
   .strict()
   .superRefine((b, ctx) => {

@@ -58,6 +58,8 @@ export const projects = pgTable(
     importRunId: integer('import_run_id'),
     /** SHA-256 of the project as loaded: a re-import of the same content changes nothing. */
     contentHash: varchar('content_hash', { length: 64 }),
+    /** Set when someone changes the project in Backsight (a form); an import clears it. While set, an import that would overwrite the edit is refused. */
+    editedAt: timestamp('edited_at', { withTimezone: true }),
     createdAt: timestamp('created_at', { withTimezone: true }).notNull().defaultNow(),
     updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
   },

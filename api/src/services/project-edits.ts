@@ -13,11 +13,21 @@ import { getProject, projectByCode, toSnapshotView } from './projects'
  * project fields (whitelisted by `PatchProjectBody`) and a new supplier snapshot of one brace.
  */
 
+function changedMeanwhile(code: string) {
+  return conflict(`Project ${code} was changed after you opened it (by an import or another user). Nothing was saved: reload it and make your change again.`)
+}
+
+/** 409 when the editor saw an older version of the project than the one stored. */
+function assertUnchangedSince(project: { updatedAt: Date }, expected: string | undefined, code: string) {
+  if (expected !== undefined && new Date(expected).getTime() !== project.updatedAt.getTime()) throw changedMeanwhile(code)
+}
+
 /** `PATCH /api/projects/:code`. Audit detail: the changed fields, before and after. */
 export async function patchProject(db: Db, actorId: number, code: string, body: PatchProjectBody): Promise<ProjectDetail> {
   await db.transaction(async tx => {
     const before = await projectByCode(tx, code)
-    const { supplierCode, ...fields } = body
+    const { supplierCode, expectedUpdatedAt, ...fields } = body
+    assertUnchangedSince(before, expectedUpdatedAt, code)
     const set: Partial<typeof projects.$inferInsert> = { ...fields }
     if (supplierCode !== undefined) {
       if (supplierCode === null) set.supplierId = null
@@ -40,7 +50,10 @@ export async function patchProject(db: Db, actorId: number, code: string, body: 
       }
     }
     if (Object.keys(changedAfter).length === 0) return
-    await tx.update(projects).set({ ...set, updatedAt: new Date() }).where(eq(projects.id, before.id))
+    const now = new Date()
+    // Conditional on the version read above: a concurrent writer in between makes this a 409, not a lost update.
+    const done = await tx.update(projects).set({ ...set, updatedAt: now, editedAt: now }).where(and(eq(projects.id, before.id), sql`date_trunc('milliseconds', ${projects.updatedAt}) = ${before.updatedAt.toISOString()}::timestamptz`)).returning({ id: projects.id })
+    if (!done.length) throw changedMeanwhile(code)
     await tx.insert(auditLog).values({ actorId, action: 'project.update', entity: 'project', entityId: code, detail: { before: changedBefore, after: changedAfter } })
   })
   return getProject(db, code)
@@ -50,6 +63,7 @@ export async function patchProject(db: Db, actorId: number, code: string, body: 
 export async function createSnapshot(db: Db, actorId: number, code: string, body: CreateSnapshotBody): Promise<SnapshotCreated> {
   return db.transaction(async tx => {
     const project = await projectByCode(tx, code)
+    assertUnchangedSince(project, body.expectedUpdatedAt, code)
     const [target] = await tx
       .select({ braceId: braces.id })
       .from(braces)
@@ -98,7 +112,8 @@ export async function createSnapshot(db: Db, actorId: number, code: string, body
         confirmed: true,
       })
       .returning()
-    await tx.update(projects).set({ updatedAt: new Date() }).where(eq(projects.id, project.id))
+    const now = new Date()
+    await tx.update(projects).set({ updatedAt: now, editedAt: now }).where(eq(projects.id, project.id))
     const snapshot = toSnapshotView(row!)
     await tx.insert(auditLog).values({
       actorId,
