@@ -9,17 +9,8 @@ import { toDisplay, unitOf, type QuantityKind, type UnitSystem } from '@shared/u
  * in², ft, ft², short tons) in the user's unit system through `shared/units`. Pure, no Vue.
  */
 
-export const USE_LABELS: Record<string, string> = {
-  office: 'Office',
-  laboratory: 'Laboratory',
-  healthcare: 'Healthcare',
-  school: 'School',
-  residential: 'Residential',
-  parking: 'Parking',
-  industrial: 'Industrial',
-  mixed: 'Mixed use',
-  other: 'Other',
-}
+/** Building-use names, one table with the proposal sheet's. */
+export { USE_LABELS } from '@shared/benchmarks/proposal-sheet'
 export const CONFIG_SHORT: Record<string, string> = { single_diagonal: 'Single diagonal', inverted_v: 'Inverted-V', v: 'V', two_story_x: 'Two-story X' }
 export const PHASE_LABELS: Record<string, string> = { sd: 'Schematic (SD)', dd: 'Design development (DD)', cd: 'Construction documents (CD)', submittal: 'Supplier submittal', approved: 'Approved submittal', coupon: 'Coupon test' }
 export const PHASE_SHORT: Record<string, string> = { sd: 'SD', dd: 'DD', cd: 'CD', submittal: 'Submittal', approved: 'Approved', coupon: 'Coupon' }
