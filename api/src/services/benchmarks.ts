@@ -4,6 +4,7 @@ import { buildGroups, describeCriteria, proposalFor, type Audience, type Benchma
 import { BENCHMARK_METRICS, METRIC_UNITS, MIN_PUBLISHED_GROUP, type BenchmarkQuery, type BenchmarkResponse, type ProposalBody, type ProposalResponse } from '@shared/schemas/benchmarks'
 import type { Db } from '../db'
 import { braces, braceSnapshots, frames, levels, projects, reviewItems, tonnage } from '../db/history-schema'
+import { historyCache } from './history-cache'
 
 /**
  * Steel tonnage benchmarks over the finished projects (drafts and probable duplicates awaiting
@@ -22,7 +23,15 @@ export const audienceOf = (role: Role | undefined): Audience => (role === 'bd' ?
 type Filters = Pick<BenchmarkQuery, 'yearFrom' | 'yearTo' | 'use' | 'sdc' | 'region'>
 
 /** Every finished project matching `filters`, with the figures the benchmarks need. */
-export async function loadBenchmarkProjects(db: Db, filters: Filters = {}): Promise<BenchmarkProject[]> {
+const projectsCache = historyCache<BenchmarkProject[]>()
+
+/** The finished projects behind the benchmarks (cached per data version and filter). */
+export function loadBenchmarkProjects(db: Db, filters: Filters = {}): Promise<BenchmarkProject[]> {
+  const key = JSON.stringify([filters.yearFrom, filters.yearTo, filters.use, filters.sdc, filters.region])
+  return projectsCache(db, key, () => queryBenchmarkProjects(db, filters))
+}
+
+async function queryBenchmarkProjects(db: Db, filters: Filters): Promise<BenchmarkProject[]> {
   const where: SQL[] = [
     eq(projects.draft, false),
     // A probable duplicate counts only once someone has confirmed it is a separate building.
@@ -71,11 +80,16 @@ export async function loadBenchmarkProjects(db: Db, filters: Filters = {}): Prom
 
   const frameBy = new Map(frameRows.map(r => [r.projectId, r]))
   const coreBy = new Map(coreRows.map(r => [r.projectId, r]))
+  const tonBy = new Map<number, BenchmarkProject['tonnage']>()
+  for (const row of tonRows) {
+    let t = tonBy.get(row.projectId)
+    if (!t) tonBy.set(row.projectId, (t = { preliminary: {}, final: {} }))
+    t[row.stage][row.category] = row.tons
+  }
   return rows.map(r => {
     const f = frameBy.get(r.id)
     const c = coreBy.get(r.id)
-    const t: BenchmarkProject['tonnage'] = { preliminary: {}, final: {} }
-    for (const row of tonRows) if (row.projectId === r.id) t[row.stage][row.category] = row.tons
+    const t: BenchmarkProject['tonnage'] = tonBy.get(r.id) ?? { preliminary: {}, final: {} }
     return {
       code: r.code,
       name: r.name,

@@ -3,6 +3,7 @@ import { rankPrecedents, type PrecedentCandidate, type PrecedentQuery } from '@s
 import { DEFAULT_PRECEDENT_WEIGHTS, type PrecedentMatch, type PrecedentSearchBody, type PrecedentSearchResponse } from '@shared/schemas/precedents'
 import { DESIGN_CAUTIONS } from '@shared/schemas/projects'
 import { lateralTons } from '@shared/benchmarks/groups'
+import { historyCache } from './history-cache'
 import { LB_PER_SHORT_TON } from '@shared/units/constants'
 import { knToKip } from '@shared/units/force'
 import { ftToIn, mToIn } from '@shared/units/length'
@@ -25,6 +26,8 @@ interface Candidate extends PrecedentCandidate {
   floorAreaFt2: number | null
   bays: number
 }
+
+const candidateCache = historyCache<{ candidates: Candidate[]; spreads: ReturnType<typeof featureSpreads> }>(1)
 
 export async function loadCandidates(db: Db): Promise<Candidate[]> {
   const rows = await db
@@ -76,9 +79,12 @@ export function toStoredQuery(body: PrecedentSearchBody): PrecedentQuery {
 
 /** `POST /api/precedents/search`. */
 export async function searchPrecedents(db: Db, body: PrecedentSearchBody): Promise<PrecedentSearchResponse> {
-  const candidates = await loadCandidates(db)
+  // Every past frame and the history's spread of each feature: the same for every search until the data changes.
+  const { candidates, spreads } = await candidateCache(db, 'all', async () => {
+    const list = await loadCandidates(db)
+    return { candidates: list, spreads: featureSpreads(list) }
+  })
   const weights = { ...DEFAULT_PRECEDENT_WEIGHTS, ...body.weights }
-  const spreads = featureSpreads(candidates)
   const ranked = rankPrecedents(toStoredQuery(body), candidates, { weights, spreads, limit: body.limit })
   const frameIds = ranked.map(r => r.candidate.frameId)
   const projectIds = [...new Set(ranked.map(r => r.candidate.projectId))]

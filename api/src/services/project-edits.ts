@@ -7,6 +7,7 @@ import { braces, braceSnapshots, frames, levels, projects, suppliers } from '../
 import { auditLog } from '../db/schema'
 import { badRequest, conflict, notFound } from '../errors'
 import { getProject, projectByCode, toSnapshotView } from './projects'
+import { refreshCalibrationPairs } from '../db/calibration'
 
 /**
  * The two edits of a project record, each in one transaction with its `audit_log` entry:
@@ -56,12 +57,14 @@ export async function patchProject(db: Db, actorId: number, code: string, body: 
     if (!done.length) throw changedMeanwhile(code)
     await tx.insert(auditLog).values({ actorId, action: 'project.update', entity: 'project', entityId: code, detail: { before: changedBefore, after: changedAfter } })
   })
+  // Analytics and the history caches follow the edit (a new data version).
+  await refreshCalibrationPairs(db)
   return getProject(db, code)
 }
 
 /** `POST /api/projects/:code/snapshots`: records the supplier's values for one brace; adjusted strengths by the engine. */
 export async function createSnapshot(db: Db, actorId: number, code: string, body: CreateSnapshotBody): Promise<SnapshotCreated> {
-  return db.transaction(async tx => {
+  const created = await db.transaction(async tx => {
     const project = await projectByCode(tx, code)
     assertUnchangedSince(project, body.expectedUpdatedAt, code)
     const [target] = await tx
@@ -125,4 +128,7 @@ export async function createSnapshot(db: Db, actorId: number, code: string, body
     const warnings = checkFactorRanges({ beta: body.beta, omega: body.omega, ...(body.stiffnessFactor ? { stiffnessFactor: body.stiffnessFactor } : {}), ...(body.ry && body.fyscBasis === 'specified_min' ? { ry: body.ry } : {}) })
     return { code, frameLine: body.frameLine, level: body.level, snapshot, cautions: [...warnings.map(w => w.message), ...DESIGN_CAUTIONS] }
   })
+  // The new supplier values count in analytics at once (a new data version).
+  await refreshCalibrationPairs(db)
+  return created
 }

@@ -1,0 +1,565 @@
+/**
+ * `npm run bench:load` — the production server under a mixed load of signed-in users.
+ * Seeds the synthetic history of `npm run bench:etl` (default 5,000 projects × 50 brace groups =
+ * 250,000 braces), perturbed deterministically like `npm run bench:analytics` so the statistics are
+ * not degenerate, through the real ETL into a fresh database; starts the app in production mode as a
+ * process of its own; signs in 50 sessions (principal, engineer, business development) and drives
+ * the analytics, precedent and benchmark endpoints with autocannon from this process for 60 s, with
+ * an upload import (a modest history file through POST /api/imports) half way through. Samples the
+ * server's RSS from /proc every second. Prints requests/s, p50/p95/p99 latency overall and per
+ * endpoint, errors, and the server's memory at start, peak and end. Not a test: nothing here passes
+ * or fails; the goals are printed next to the measured numbers.
+ *
+ * Options: BENCH_PROJECTS (default 5000), BENCH_CONNECTIONS (50), BENCH_DURATION (s, 60),
+ * BENCH_IMPORT_PROJECTS (projects in the uploaded file, 200; 0 = no import), BENCH_TIMEOUT (s a
+ * response may take before it counts as a timeout error, 30), BENCH_KEEP=1 keeps the work folder
+ * (server log, upload file). Uses DATABASE_URL's server when set, otherwise starts a
+ * throwaway cluster like `npm test` does. Traffic goes to 127.0.0.1 only.
+ */
+import { spawn, type ChildProcess } from 'node:child_process'
+import { randomBytes } from 'node:crypto'
+import { chmodSync, createWriteStream, existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
+import { tmpdir } from 'node:os'
+import { join, resolve } from 'node:path'
+import { createInterface } from 'node:readline'
+import autocannon, { type Request as CannonRequest } from 'autocannon'
+import pg from 'pg'
+import { migrateDb, openDb } from '../../api/src/db'
+import { ensureDemoUsers } from '../../api/src/services/users'
+import { ARROW_STREAM_TYPE } from '../../shared/schemas/calibration'
+import { expandPaths } from '../../etl/src/paths'
+import { readInputs, runImport } from '../../etl/src/run'
+import { startMailSink, type MailSink } from '../fakes/mail-sink'
+import { ensureDatabase, startCluster } from '../lib/postgres'
+import { freePort } from '../lib/ports'
+import { generate, writeCsv } from './etl'
+
+const ROOT = resolve(import.meta.dirname, '../..')
+const PROJECTS = Number(process.env.BENCH_PROJECTS ?? 5000)
+const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 50)
+const DURATION = Number(process.env.BENCH_DURATION ?? 60)
+const IMPORT_PROJECTS = Number(process.env.BENCH_IMPORT_PROJECTS ?? 200)
+/** Seconds before autocannon gives up on a response (counted as a timeout error). */
+const TIMEOUT = Number(process.env.BENCH_TIMEOUT ?? 30)
+const PASSWORD = 'bench-password-bench'
+
+type Row = Record<string, string | number>
+
+/** Deterministic pseudo-random numbers in [0, 1) (mulberry32). */
+function rng(seed: number) {
+  let a = seed >>> 0
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0
+    let t = a
+    t = Math.imul(t ^ (t >>> 15), t | 1)
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
+  }
+}
+
+// The perturbation of scripts/bench/analytics.ts (which exports nothing and runs on import), with
+// the seed as a parameter so the uploaded file differs from the seeded history.
+const SUPPLIERS = ['BS-A', 'BS-B', 'BS-C', 'BS-D']
+const EDITIONS: [number, string][] = [[2011, '341-05'], [2017, '341-10'], [2024, '341-16'], [9999, '341-22']]
+const CONFIGS = ['inverted_v', 'v']
+const USES = ['office', 'laboratory', 'healthcare', 'school', 'residential', 'parking']
+const clamp = (v: number, lo: number, hi: number) => Math.min(hi, Math.max(lo, v))
+const r3 = (v: number) => Math.round(v * 1000) / 1000
+
+/** Varies the uniform synthetic rows, keeping every value inside the loader's plausible bands. */
+function perturb(t: Record<string, Row[]>, seed: number): Record<string, Row[]> {
+  const rand = rng(seed)
+  t.suppliers = SUPPLIERS.map(code => ({ supplier_code: code, display_name: `Bench supplier ${code.slice(-1)}` }))
+  const projectSupplier = new Map<string, number>()
+  for (const p of t.projects!) {
+    const s = Math.floor(rand() * SUPPLIERS.length)
+    const year = Number(p.year_designed)
+    projectSupplier.set(String(p.project_code), s)
+    Object.assign(p, {
+      supplier_code: SUPPLIERS[s]!,
+      office: ['North', 'South', 'Coast'][Math.floor(rand() * 3)]!,
+      building_use: USES[Math.floor(rand() * USES.length)]!,
+      sdc: ['C', 'D', 'E'][Math.floor(rand() * 3)]!,
+      aisc341_edition: EDITIONS.find(([upTo]) => year <= upTo)![1],
+      stories: 10,
+      year_completed: year + 1 + Math.floor(rand() * 2),
+    })
+  }
+  for (const f of t.frames!) f.configuration = CONFIGS[Math.floor(rand() * CONFIGS.length)]!
+  for (const v of t.brace_values!) {
+    const s = projectSupplier.get(String(v.project_code))!
+    if (v.phase === 'sd') {
+      Object.assign(v, { beta: r3(1.08 + rand() * 0.07), omega: r3(1.3 + rand() * 0.12), stiffness_factor: r3(1.3 + rand() * 0.2) })
+    } else {
+      Object.assign(v, {
+        beta: r3(clamp(1.05 + 0.04 * s + (rand() - 0.5) * 0.12, 1.0, 1.3)),
+        omega: r3(clamp(1.35 + 0.03 * s + (rand() - 0.5) * 0.16, 1.0, 1.8)),
+        fysc: r3(clamp(40 + 2 * s + (rand() - 0.5) * 6, 30, 65)),
+        stiffness_factor: r3(clamp(1.35 + 0.05 * s + (rand() - 0.5) * 0.3, 1.0, 2.0)),
+        core_area: Number(v.core_area) + (rand() < 0.15 ? 0.25 : 0),
+      })
+    }
+  }
+  for (const w of t.tonnage!) w.weight = r3(Number(w.weight) * (0.7 + rand() * 0.6))
+  t.tonnage!.push(...t.projects!.map(p => ({ project_code: p.project_code!, stage: 'preliminary', category: 'lateral_total', weight: r3(110 + rand() * 40) })))
+  return t
+}
+
+/**
+ * The history file uploaded during the run: `n` new projects (codes and names of their own, so they
+ * are neither updates nor probable duplicates of seeded ones) as one JSON document.
+ */
+function uploadDocument(n: number): string {
+  const t = perturb(generate(n), 7331)
+  for (const rows of Object.values(t)) {
+    for (const r of rows) if (typeof r.project_code === 'string') r.project_code = r.project_code.replace('BENCH-', 'UPLOAD-')
+  }
+  for (const p of t.projects!) p.name = String(p.name).replace('Bench building', 'Uploaded building')
+  return JSON.stringify({ format: 'backsight-history', version: 1, units: 'us', ...t })
+}
+
+async function freshDb(adminUrl: string, name: string): Promise<string> {
+  const c = new pg.Client({ connectionString: adminUrl })
+  await c.connect()
+  await c.query(`drop database if exists ${name} with (force)`)
+  await c.query(`create database ${name}`)
+  await c.end()
+  return adminUrl.replace(/\/[^/]*$/, `/${name}`)
+}
+
+const pct = (xs: number[], p: number) => {
+  if (!xs.length) return NaN
+  const s = [...xs].sort((a, b) => a - b)
+  return s[Math.min(s.length - 1, Math.max(0, Math.ceil(p * s.length) - 1))]!
+}
+const median = (xs: number[]) => pct(xs, 0.5)
+const ms = (v: number) => (Number.isFinite(v) ? `${v.toFixed(1)} ms` : '—')
+const mb = (kb: number) => (Number.isFinite(kb) ? `${(kb / 1024).toFixed(0)} MB` : '—')
+
+// ── server process ─────────────────────────────────────────────────────────────────────────────
+
+interface Server {
+  child: ChildProcess
+  port: number
+  stop: () => Promise<void>
+}
+
+async function startServer(env: NodeJS.ProcessEnv, logFile: string): Promise<Server> {
+  const port = await freePort()
+  const log = createWriteStream(logFile)
+  // node --import tsx (not npx tsx, which runs the server in a grandchild): this pid is the server.
+  const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'scripts/bench/load-server.ts')], {
+    cwd: ROOT,
+    env: { ...env, PORT: String(port) },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  })
+  child.stderr!.pipe(log, { end: false })
+  const listening = new Promise<void>((ok, fail) => {
+    const lines = createInterface({ input: child.stdout! })
+    lines.on('line', line => {
+      log.write(`${line}\n`)
+      if (line.startsWith('listening ')) ok()
+    })
+    child.once('exit', code => fail(new Error(`the server exited (code ${code}) before listening; see ${logFile}:\n${readFileSync(logFile, 'utf8').slice(-2000)}`)))
+  })
+  const timer = setTimeout(() => child.kill('SIGTERM'), 60_000)
+  await listening.finally(() => clearTimeout(timer))
+  return {
+    child,
+    port,
+    stop: () =>
+      new Promise<void>(done => {
+        if (child.exitCode !== null || child.signalCode !== null) return done()
+        const force = setTimeout(() => child.kill('SIGKILL'), 10_000)
+        child.once('exit', () => {
+          clearTimeout(force)
+          log.end()
+          done()
+        })
+        child.kill('SIGTERM')
+      }),
+  }
+}
+
+/** VmRSS and VmHWM (peak RSS as the kernel counts it) of a process, in kB. */
+function rssOf(pid: number): { rss: number; hwm: number } | undefined {
+  try {
+    const status = readFileSync(`/proc/${pid}/status`, 'utf8')
+    const kb = (key: string) => Number(new RegExp(`^${key}:\\s+(\\d+) kB`, 'm').exec(status)?.[1] ?? NaN)
+    return { rss: kb('VmRSS'), hwm: kb('VmHWM') }
+  } catch {
+    return undefined
+  }
+}
+
+// ── sessions ───────────────────────────────────────────────────────────────────────────────────
+
+interface Session {
+  role: 'principal' | 'engineer' | 'bd'
+  cookie: string
+  csrf: string
+}
+
+const cookieOf = (res: Response) =>
+  res.headers
+    .getSetCookie()
+    .map(c => c.split(';')[0]!)
+    .find(c => c.startsWith('backsight.sid='))
+
+async function signIn(base: string, role: Session['role']): Promise<Session> {
+  const first = await fetch(`${base}/api/auth/csrf`)
+  const csrf = ((await first.json()) as { token: string }).token
+  const anonymous = cookieOf(first)
+  if (!anonymous) throw new Error('GET /api/auth/csrf set no session cookie')
+  const res = await fetch(`${base}/api/auth/sign-in`, {
+    method: 'POST',
+    headers: { cookie: anonymous, 'x-csrf-token': csrf, 'content-type': 'application/json' },
+    body: JSON.stringify({ email: `${role}@example.com`, password: PASSWORD }),
+  })
+  if (res.status !== 200) throw new Error(`sign-in as ${role} → ${res.status} ${await res.text()}`)
+  await res.arrayBuffer()
+  return { role, cookie: cookieOf(res) ?? anonymous, csrf }
+}
+
+// ── the request mix ────────────────────────────────────────────────────────────────────────────
+
+type Kind = 'summary' | 'trend' | 'cost' | 'misses' | 'options' | 'points' | 'starting-factors' | 'precedents' | 'benchmarks' | 'proposal'
+/** Relative share of each endpoint in the mix. */
+const WEIGHTS: Record<Kind, number> = { summary: 3, trend: 2, cost: 1, misses: 2, options: 1, points: 1, 'starting-factors': 2, precedents: 3, benchmarks: 2, proposal: 2 }
+const ENDPOINT: Record<Kind, string> = {
+  summary: 'GET /api/calibration/summary',
+  trend: 'GET /api/calibration/trend',
+  cost: 'GET /api/calibration/cost',
+  misses: 'GET /api/calibration/misses',
+  options: 'GET /api/calibration/options',
+  points: 'GET /api/calibration/points (Arrow)',
+  'starting-factors': 'GET /api/starting-factors',
+  precedents: 'POST /api/precedents/search',
+  benchmarks: 'GET /api/benchmarks',
+  proposal: 'POST /api/benchmarks/proposal',
+}
+const ANALYST_KINDS = new Set<Kind>(['summary', 'trend', 'cost', 'misses', 'options', 'points', 'starting-factors', 'precedents'])
+
+const QUANTITIES = ['beta', 'omega', 'overstrength', 'stiffness', 'coreArea', 'tmax', 'cmax']
+const GROUPINGS = ['supplier', 'configuration', 'yearBand', 'office', 'none']
+const FILTERS = ['', '&supplier=BS-B', '&yearFrom=2012&yearTo=2018', '&configuration=inverted_v,v', '&sdc=D&codeEdition=341-16', '&coreAreaMin=4&coreAreaMax=8', '&use=office,school&storiesMin=5', '&supplier=BS-A,BS-C&yearFrom=2015']
+const BENCH_USES = ['office', 'laboratory', 'healthcare', 'school', 'residential', 'parking']
+
+interface Built {
+  method: string
+  path: string
+  body?: unknown
+  accept?: string
+}
+
+/** One request of `kind`, its parameters drawn from `rand` (deterministic for a given sequence). */
+function build(kind: Kind, rand: () => number): Built {
+  const pick = <T>(xs: readonly T[]) => xs[Math.floor(rand() * xs.length)]!
+  switch (kind) {
+    case 'summary':
+      return { method: 'GET', path: `/api/calibration/summary?quantity=${pick(QUANTITIES)}&groupBy=${pick(GROUPINGS)}${pick(FILTERS)}` }
+    case 'trend':
+      return { method: 'GET', path: `/api/calibration/trend?quantity=${pick(QUANTITIES)}${pick(FILTERS)}` }
+    case 'cost':
+      return { method: 'GET', path: `/api/calibration/cost?phase=sd${pick(FILTERS)}` }
+    case 'misses':
+      return { method: 'GET', path: `/api/calibration/misses?quantity=${pick(QUANTITIES)}&limit=${pick([25, 100])}&sort=${pick(['ratio', 'project', 'year', 'supplier'])}${pick(FILTERS)}` }
+    case 'options':
+      return { method: 'GET', path: '/api/calibration/options' }
+    case 'points':
+      // The dashboard asks for points as Arrow; filtered sets keep each answer to a share of the 250,000.
+      return { method: 'GET', path: `/api/calibration/points?quantity=${pick(['cmax', 'tmax', 'beta'])}&groupBy=${pick(GROUPINGS)}${pick(FILTERS.slice(1))}`, accept: ARROW_STREAM_TYPE }
+    case 'starting-factors': {
+      const q = [`quantile=${pick([0.5, 0.75, 0.9, 0.95])}`]
+      if (rand() < 0.7) q.push(`supplier=${pick(SUPPLIERS)}`)
+      if (rand() < 0.5) q.push(`configuration=${pick(CONFIGS)}`)
+      if (rand() < 0.4) q.push(`coreAreaMin=${pick([2, 4])}&coreAreaMax=${pick([8, 12])}`)
+      if (rand() < 0.3) q.push(`yearFrom=${pick([2010, 2014, 2018])}`)
+      return { method: 'GET', path: `/api/starting-factors?${q.join('&')}` }
+    }
+    case 'precedents': {
+      const d: Record<string, unknown> = { storyShear: 100 + Math.round(rand() * 40) * 10 }
+      if (rand() < 0.8) d.stories = 4 + Math.floor(rand() * 12)
+      if (rand() < 0.5) d.storyHeight = pick([12, 13, 14, 15])
+      if (rand() < 0.5) d.bayWidth = pick([25, 30, 35])
+      if (rand() < 0.7) d.configuration = pick(CONFIGS)
+      if (rand() < 0.5) d.sdc = pick(['C', 'D', 'E'])
+      if (rand() < 0.4) d.buildingUse = pick(BENCH_USES)
+      if (rand() < 0.4) d.supplier = pick(SUPPLIERS)
+      const body: Record<string, unknown> = { description: d, limit: pick([5, 10, 20]) }
+      if (rand() < 0.2) body.weights = { storyShear: 5, configuration: 1 }
+      return { method: 'POST', path: '/api/precedents/search', body }
+    }
+    case 'benchmarks': {
+      const q = [`groupBy=${pick(['use', 'heightBand', 'sdc', 'region', 'years'])}`, `units=${pick(['us', 'si'])}`]
+      if (rand() < 0.4) q.push(`yearFrom=${pick([2008, 2012, 2016])}&yearTo=${pick([2020, 2026])}`)
+      if (rand() < 0.3) q.push(`use=${pick(BENCH_USES)}`)
+      if (rand() < 0.3) q.push(`sdc=${pick(['C', 'D', 'E'])}`)
+      return { method: 'GET', path: `/api/benchmarks?${q.join('&')}` }
+    }
+    case 'proposal': {
+      const body: Record<string, unknown> = { use: pick(BENCH_USES), stories: 3 + Math.floor(rand() * 15), floorArea: 20_000 + Math.round(rand() * 180) * 1000 }
+      if (rand() < 0.5) body.sdc = pick(['C', 'D', 'E'])
+      if (rand() < 0.2) body.units = 'si'
+      return { method: 'POST', path: '/api/benchmarks/proposal', body }
+    }
+  }
+}
+
+interface Sample {
+  kind: Kind
+  at: number
+  ms: number
+  status: number
+}
+
+async function main() {
+  const work = mkdtempSync(join(tmpdir(), 'backsight-bench-load-'))
+  chmodSync(work, 0o755)
+  let stopCluster = () => {}
+  let sink: MailSink | undefined
+  let server: Server | undefined
+  let adminUrl = process.env.DATABASE_URL?.replace(/\/[^/]*$/, '/postgres')
+  if (!adminUrl) {
+    const cluster = startCluster({ dataDir: join(work, 'pgdata'), port: await freePort() })
+    stopCluster = cluster.stop
+    adminUrl = cluster.url('postgres')
+    await ensureDatabase(adminUrl, 'postgres')
+  }
+  try {
+    // 1. Seed.
+    console.log(`Generating ${PROJECTS} projects (${PROJECTS * 50} braces), perturbed deterministically…`)
+    writeCsv(join(work, 'csv'), perturb(generate(PROJECTS), 2026))
+    const url = await freshDb(adminUrl, 'bench_load')
+    {
+      const handle = openDb(url)
+      try {
+        await migrateDb(handle.db)
+        const t0 = performance.now()
+        const summary = await runImport(handle.db, await readInputs(await expandPaths([join(work, 'csv')])), { source: 'cli' })
+        console.log(`ETL into a fresh database: ${((performance.now() - t0) / 1000).toFixed(1)} s, ${summary.loaded} projects loaded`)
+        if (summary.loaded !== PROJECTS) throw new Error(`ETL loaded ${summary.loaded} of ${PROJECTS}: ${summary.problems.slice(0, 3).map(p => p.message).join('; ')}`)
+        await ensureDemoUsers(handle.db, PASSWORD, { force: true })
+      } finally {
+        await handle.close()
+      }
+    }
+    rmSync(join(work, 'csv'), { recursive: true, force: true })
+    const upload = IMPORT_PROJECTS > 0 ? uploadDocument(IMPORT_PROJECTS) : ''
+    if (upload) writeFileSync(join(work, 'upload.json'), upload)
+
+    // 2. The server, in production mode, in a process of its own.
+    sink = await startMailSink({ port: await freePort(), dir: join(work, 'mail') })
+    const dist = join(ROOT, 'dist', 'dashboard')
+    const env: NodeJS.ProcessEnv = {
+      ...process.env,
+      NODE_ENV: 'production',
+      HOST: '127.0.0.1',
+      DATABASE_URL: url,
+      SESSION_SECRET: randomBytes(32).toString('hex'),
+      SMTP_HOST: '127.0.0.1',
+      SMTP_PORT: String(sink.port),
+      MAIL_SINK_DIR: sink.dir,
+      // Fifty sign-ins from one address: above the per-IP limit a firm's office would ever need.
+      SIGN_IN_LIMIT: '1000',
+      LOG_LEVEL: 'warn',
+      // The built dashboard is served when there is one (`npm run build`); the API does not need it.
+      DASHBOARD_DIST: existsSync(join(dist, 'index.html')) ? dist : undefined,
+    }
+    if (!env.DASHBOARD_DIST) delete env.DASHBOARD_DIST
+    // The server runs with Node's default heap, as `npm start` does (not this script's 8 GB).
+    delete env.NODE_OPTIONS
+    const logFile = join(work, 'server.log')
+    server = await startServer(env, logFile)
+    const pid = server.child.pid!
+    const base = `http://127.0.0.1:${server.port}`
+    console.log(`Server (NODE_ENV=production${env.DASHBOARD_DIST ? ', built dashboard served' : ', no dashboard build'}) pid ${pid} on ${base}`)
+
+    // 3. Sessions: 50 sign-ins across the three roles, plus one engineer for the upload.
+    const roles: Session['role'][] = Array.from({ length: CONNECTIONS }, (_, i) => (['principal', 'engineer', 'bd'] as const)[i % 3])
+    const sessions: Session[] = []
+    let t0 = performance.now()
+    for (const role of roles) sessions.push(await signIn(base, role))
+    const uploader = await signIn(base, 'engineer')
+    console.log(`${sessions.length} sessions signed in (${roles.filter(r => r === 'principal').length} principal, ${roles.filter(r => r === 'engineer').length} engineer, ${roles.filter(r => r === 'bd').length} bd) in ${((performance.now() - t0) / 1000).toFixed(1)} s`)
+    const analysts = sessions.filter(s => s.role !== 'bd')
+    const bizdev = sessions.filter(s => s.role !== 'engineer')
+
+    // 4. RSS sampling, every second, from /proc.
+    const rss: { at: number; rss: number; hwm: number }[] = []
+    const start = rssOf(pid)!
+    const runStart = performance.now()
+    const sampler = setInterval(() => {
+      const r = rssOf(pid)
+      if (r) rss.push({ at: (performance.now() - runStart) / 1000, ...r })
+    }, 1000)
+
+    // 5. The load.
+    const schedule: Kind[] = []
+    for (const [k, w] of Object.entries(WEIGHTS) as [Kind, number][]) for (let i = 0; i < w; i++) schedule.push(k)
+    const shuffle = rng(99)
+    for (let i = schedule.length - 1; i > 0; i--) {
+      const j = Math.floor(shuffle() * (i + 1))
+      ;[schedule[i], schedule[j]] = [schedule[j]!, schedule[i]!]
+    }
+    const rand = rng(4242)
+    let seq = 0
+    let nAnalyst = 0
+    let nBiz = 0
+    const samples: Sample[] = []
+    const failures = new Map<string, number>()
+    const requests: CannonRequest[] = [
+      {
+        setupRequest: (req, context) => {
+          const kind = schedule[seq++ % schedule.length]!
+          const b = build(kind, rand)
+          const s = ANALYST_KINDS.has(kind) ? analysts[nAnalyst++ % analysts.length]! : bizdev[nBiz++ % bizdev.length]!
+          const headers: Record<string, string> = { cookie: s.cookie, 'accept-encoding': 'gzip', accept: b.accept ?? 'application/json' }
+          if (b.method !== 'GET') Object.assign(headers, { 'x-csrf-token': s.csrf, 'content-type': 'application/json' })
+          // Built right before it is written (autocannon's request iterator), so t0 is the send time.
+          context.kind = kind
+          context.path = b.path
+          context.t0 = performance.now()
+          return { ...req, method: b.method, path: b.path, headers, body: b.body === undefined ? undefined : JSON.stringify(b.body) }
+        },
+        onResponse: (status, body, context) => {
+          const now = performance.now()
+          samples.push({ kind: context.kind as Kind, at: (now - runStart) / 1000, ms: now - (context.t0 as number), status })
+          if (status < 200 || status >= 300) {
+            const key = `${status} ${context.path}: ${body.slice(0, 160)}`
+            failures.set(key, (failures.get(key) ?? 0) + 1)
+          }
+        },
+      },
+    ]
+
+    // The concurrent import: half way through, an engineer uploads a history file.
+    const imp: { uploadedAt?: number; acceptedMs?: number; finishedAt?: number; status?: string; loaded?: number; error?: string } = {}
+    let importDone: Promise<void> = Promise.resolve()
+    const importTimer = upload
+      ? setTimeout(() => {
+          importDone = (async () => {
+            imp.uploadedAt = (performance.now() - runStart) / 1000
+            const form = new FormData()
+            form.append('file', new Blob([upload], { type: 'application/json' }), 'bench-upload.json')
+            const s = performance.now()
+            const res = await fetch(`${base}/api/imports`, { method: 'POST', headers: { cookie: uploader.cookie, 'x-csrf-token': uploader.csrf }, body: form })
+            imp.acceptedMs = performance.now() - s
+            const run = (await res.json()) as { id: number; status: string }
+            if (res.status !== 202) throw new Error(`POST /api/imports → ${res.status} ${JSON.stringify(run)}`)
+            // Poll the run until its loader process is done (bounded: 10 minutes).
+            for (let i = 0; i < 600; i++) {
+              await new Promise(r => setTimeout(r, 1000))
+              const r = await fetch(`${base}/api/imports/${run.id}`, { headers: { cookie: uploader.cookie } })
+              const { run: now } = (await r.json()) as { run: { status: string; loaded: number; error: string | null } }
+              if (now.status === 'finished' || now.status === 'failed') {
+                imp.finishedAt = (performance.now() - runStart) / 1000
+                imp.status = now.error ? `${now.status} (${now.error.slice(0, 200)})` : now.status
+                imp.loaded = now.loaded
+                return
+              }
+            }
+            imp.status = 'still running after 10 minutes'
+          })().catch(err => {
+            imp.error = err instanceof Error ? err.message : String(err)
+          })
+        }, (DURATION * 1000) / 2)
+      : undefined
+
+    console.log(`Driving ${CONNECTIONS} connections for ${DURATION} s${upload ? `, uploading ${IMPORT_PROJECTS} projects (${(upload.length / 1e6).toFixed(1)} MB JSON) at ${DURATION / 2} s` : ''}…`)
+    const result = await autocannon({ url: base, connections: CONNECTIONS, duration: DURATION, timeout: TIMEOUT, requests })
+    const runEnd = (performance.now() - runStart) / 1000
+    clearTimeout(importTimer)
+    const atEnd = rssOf(pid)!
+    // Memory 5 s after the load stopped (the server may still be answering requests it had queued;
+    // the import, if still running, is in a loader process of its own).
+    await new Promise(r => setTimeout(r, 5000))
+    const idle = rssOf(pid)!
+    clearInterval(sampler)
+    await importDone
+
+    // 6. Report.
+    const all = samples.map(s => s.ms)
+    const errorsNon2xx = result.non2xx
+    console.log(`\nLoad: ${CONNECTIONS} connections, ${result.duration} s, mix ${Object.entries(WEIGHTS).map(([k, w]) => `${k} ${w}`).join(', ')}`)
+    console.log(`requests: ${result.requests.total} (${(result.requests.total / runEnd).toFixed(1)} req/s overall; autocannon per-second average ${result.requests.average.toFixed(1)}, min ${result.requests.min}, max ${result.requests.max})`)
+    console.log(`latency (all requests, measured per request here): p50 ${ms(pct(all, 0.5))}  p95 ${ms(pct(all, 0.95))}  p99 ${ms(pct(all, 0.99))}  max ${ms(Math.max(...all))}`)
+    console.log(`latency (autocannon's histogram):                 p50 ${result.latency.p50} ms  p97.5 ${result.latency.p97_5} ms  p99 ${result.latency.p99} ms  max ${result.latency.max} ms`)
+    console.log(`errors: ${errorsNon2xx + result.errors} (non-2xx ${errorsNon2xx}, socket errors ${result.errors - result.timeouts}, timeouts after ${TIMEOUT} s ${result.timeouts}; autocannon counts a timeout as an error); responses slower than 10 s ${all.filter(v => v > 10_000).length}; status codes ${Object.entries(result.statusCodeStats).map(([c, v]) => `${c}×${v.count}`).join(', ')}`)
+    for (const [k, n] of [...failures].sort((a, b) => b[1] - a[1]).slice(0, 5)) console.log(`  ${n}× ${k}`)
+
+    console.log('\nendpoint                               count    p50         p95         p99         max        non-2xx')
+    const kinds = Object.keys(WEIGHTS) as Kind[]
+    const byKind = (k: Kind, xs = samples) => xs.filter(s => s.kind === k)
+    for (const k of kinds.sort((a, b) => pct(byKind(b).map(s => s.ms), 0.95) - pct(byKind(a).map(s => s.ms), 0.95))) {
+      const xs = byKind(k)
+      const t = xs.map(s => s.ms)
+      console.log(
+        `${ENDPOINT[k].padEnd(36)} ${String(xs.length).padStart(7)} ${ms(pct(t, 0.5)).padStart(10)} ${ms(pct(t, 0.95)).padStart(11)} ${ms(pct(t, 0.99)).padStart(11)} ${ms(Math.max(...t)).padStart(11)} ${String(xs.filter(s => s.status < 200 || s.status >= 300).length).padStart(9)}`,
+      )
+    }
+    const slowest = [...samples].sort((a, b) => b.ms - a.ms).slice(0, Math.max(1, Math.floor(samples.length * 0.05)))
+    const tail = kinds.map(k => [k, slowest.filter(s => s.kind === k).length] as const).filter(([, n]) => n > 0).sort((a, b) => b[1] - a[1])
+    console.log(`slowest 5 % of requests (${slowest.length}) by endpoint: ${tail.map(([k, n]) => `${k} ${((100 * n) / slowest.length).toFixed(0)} %`).join(', ')}`)
+
+    if (upload) {
+      const during = samples.filter(s => imp.uploadedAt !== undefined && s.at >= imp.uploadedAt && s.at <= (imp.finishedAt ?? Infinity))
+      const before = samples.filter(s => imp.uploadedAt !== undefined && s.at < imp.uploadedAt)
+      const after = samples.filter(s => imp.finishedAt !== undefined && s.at > imp.finishedAt)
+      const p = (xs: Sample[]) => `${xs.length} requests, p50 ${ms(pct(xs.map(s => s.ms), 0.5))}, p95 ${ms(pct(xs.map(s => s.ms), 0.95))}`
+      console.log(`\nconcurrent import (${IMPORT_PROJECTS} projects, upload at ${imp.uploadedAt?.toFixed(0)} s, 202 after ${ms(imp.acceptedMs ?? NaN)}): ${imp.error ? `failed: ${imp.error}` : `${imp.status}, ${imp.loaded} projects loaded, ${imp.finishedAt !== undefined && imp.uploadedAt !== undefined ? `${(imp.finishedAt - imp.uploadedAt).toFixed(0)} s after the upload (at ${imp.finishedAt.toFixed(0)} s)` : ''}`}`)
+      console.log(`  before the upload: ${p(before)}`)
+      console.log(`  while it ran:      ${p(during)}`)
+      console.log(`  after it finished: ${after.length ? p(after) : '(finished after the load ended)'}`)
+    }
+
+    console.log('\nper 10 s:   req/s    p50         p95         max          server RSS (end of window)')
+    for (let w = 0; w * 10 < runEnd - 0.5; w++) {
+      const to = Math.min((w + 1) * 10, runEnd)
+      const xs = samples.filter(s => s.at >= w * 10 && s.at < to).map(s => s.ms)
+      const r = rss.filter(s => s.at < to).at(-1)
+      console.log(`${`${w * 10}–${to.toFixed(0)} s`.padEnd(10)} ${(xs.length / (to - w * 10)).toFixed(1).padStart(7)} ${ms(pct(xs, 0.5)).padStart(10)} ${ms(pct(xs, 0.95)).padStart(11)} ${ms(xs.length ? Math.max(...xs) : NaN).padStart(11)}   ${mb(r?.rss ?? NaN).padStart(8)}`)
+    }
+
+    const during = rss.filter(s => s.at <= runEnd)
+    const peak = Math.max(...rss.map(s => s.rss), atEnd.rss, idle.rss)
+    const firstWarm = median(during.filter(s => s.at >= 5 && s.at < 15).map(s => s.rss))
+    const lastWarm = median(during.filter(s => s.at >= runEnd - 10).map(s => s.rss))
+    const growth = lastWarm - firstWarm
+    console.log(`\nserver RSS (/proc/${pid}/status, ${rss.length} samples): start ${mb(start.rss)} (idle, signed in, nothing computed yet); peak ${mb(peak)} (kernel VmHWM ${mb(idle.hwm)}); end of load ${mb(atEnd.rss)}; 5 s after the load stopped ${mb(idle.rss)}`)
+    console.log(`  median over 5–15 s ${mb(firstWarm)} → over the last 10 s ${mb(lastWarm)}: ${growth > 0 ? '+' : ''}${mb(growth)} (${((100 * growth) / firstWarm).toFixed(0)} %)`)
+    console.log(
+      `  note: ${Math.abs(growth) <= Math.max(0.1 * firstWarm, 32 * 1024) ? 'memory did not grow over the run beyond noise (≤ 10 % or 32 MB between the first and last windows)' : growth > 0 ? 'memory GREW over the run (first vs last window); the import bumps the data version, so the analytics columns and answer cache are rebuilt once — rerun longer to tell a leak from the rebuild' : 'memory fell over the run'}`,
+    )
+    console.log('\nGoals: zero errors, p95 < 200 ms, memory that does not grow over the run.')
+    const log = readFileSync(logFile, 'utf8').split('\n').filter(l => l.trim() && !l.startsWith('listening '))
+    if (log.length) {
+      // pino lines: count the distinct error messages the server logged.
+      const reasons = new Map<string, number>()
+      for (const line of log) {
+        let why = line.slice(0, 160)
+        try {
+          const o = JSON.parse(line) as { msg?: string; err?: { message?: string } }
+          why = (o.err?.message ?? o.msg ?? why).slice(0, 160)
+        } catch {}
+        reasons.set(why, (reasons.get(why) ?? 0) + 1)
+      }
+      console.log(`server log: ${log.length} lines of warnings/errors (${process.env.BENCH_KEEP ? logFile : 'set BENCH_KEEP=1 to keep it'}):`)
+      for (const [why, n] of [...reasons].sort((a, b) => b[1] - a[1]).slice(0, 5)) console.log(`  ${n}× ${why}`)
+    }
+  } finally {
+    await server?.stop()
+    await sink?.close()
+    stopCluster()
+    if (!process.env.BENCH_KEEP) rmSync(work, { recursive: true, force: true })
+    else console.log('kept', work)
+  }
+}
+
+main().then(
+  () => process.exit(0),
+  err => {
+    console.error(err)
+    process.exit(1)
+  },
+)
