@@ -7,6 +7,7 @@ import { createApp } from 'vue'
 import App from './App.vue'
 import { router } from './router'
 import { cssVariables } from './theme'
+import { naiveA11y } from './utils/a11y'
 import { message } from './utils/discrete'
 
 for (const [k, v] of Object.entries(cssVariables())) document.documentElement.style.setProperty(k, v)
@@ -14,6 +15,7 @@ for (const [k, v] of Object.entries(cssVariables())) document.documentElement.st
 const app = createApp(App)
 app.use(createPinia())
 app.use(router)
+app.use(naiveA11y)
 // Last resort: anything a component did not handle reaches the user as a toast, not silence.
 app.config.errorHandler = err => {
   console.error(err)

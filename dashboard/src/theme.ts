@@ -12,13 +12,14 @@ export const palette = {
   steel500: '#2F7A8C',
   steel300: '#8DB8C3',
   steel100: '#E4EFF2',
-  amber600: '#B5651D',
+  // Text tokens are at least 4.5:1 on every light surface below (WCAG 2.1 SC 1.4.3); tests/dashboard/theme.test.ts checks it.
+  amber600: '#9E5716',
   amber400: '#E6A157',
   amber100: '#FBEEDD',
   red600: '#B23A3A',
-  green600: '#2E7D4F',
+  green600: '#276B43',
   slate700: '#46545B',
-  slate500: '#6B7A82',
+  slate500: '#5E6C74',
   slate300: '#C5CED2',
   slate100: '#F1F4F5',
   paper: '#FBFCFC',
@@ -62,6 +63,8 @@ export const themeOverrides: GlobalThemeOverrides = {
     itemIconColorActiveInverted: palette.amber400,
   },
   Card: { borderRadius: '8px' },
+  // naive-ui's own empty-state grey (#c2c2c2) is 1.8:1 on white; use the muted text token instead.
+  Empty: { textColor: palette.slate500, iconColor: palette.slate300 },
   LoadingBar: { colorLoading: palette.amber400 },
 }
 
