@@ -24,7 +24,13 @@ interface Gate {
   report?: string
 }
 
-const only = process.argv.slice(2) // optional: names of gates to run
+// Optional arguments: names of gates to run, and test files (paths) to hand to the vitest gates,
+// e.g. `npx tsx scripts/test.ts build browser tests/browser/keyboard.test.ts`.
+const args = process.argv.slice(2)
+const files = args.filter(a => a.includes('/'))
+const only = args.filter(a => !a.includes('/'))
+/** The files of `files` a vitest gate runs: browser files to the browser gate, the rest to unit+api. */
+const filesFor = (gate: string) => files.filter(f => (gate === 'browser') === f.startsWith('tests/browser/'))
 
 async function main() {
   rmSync(ARTIFACTS, { recursive: true, force: true })
@@ -74,6 +80,11 @@ async function main() {
   try {
     for (const gate of gates) {
       if (only.length && !only.includes(gate.name)) continue
+      if (gate.report && files.length) {
+        const mine = filesFor(gate.name)
+        if (!mine.length) continue
+        gate.args = [...gate.args, ...mine]
+      }
       const t0 = Date.now()
       console.log(`\n━━ ${gate.name} ━━`)
       // Asynchronous on purpose: the mail sink lives in this process and must keep answering.

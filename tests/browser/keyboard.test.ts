@@ -124,7 +124,7 @@ describe('Keyboard-only use in Chromium', () => {
     await page.close()
   })
 
-  it('reaches the Imports review queue and confirms a flagged value with the keyboard alone', async () => {
+  it('imports a history file, then reaches the Imports review queue and confirms a flagged value with the keyboard alone', async () => {
     const page = await h.context.newPage()
     await page.context().clearCookies()
     await page.goto(`${h.baseUrl}/sign-in`)
@@ -140,8 +140,23 @@ describe('Keyboard-only use in Chromium', () => {
     await page.keyboard.press('Enter')
     await page.waitForURL('**/imports')
     await page.locator('[data-test=drop-zone]').waitFor()
+
+    // Import: Tab to the file picker (its focus shows on the whole drop zone), Space opens the browser's file chooser.
+    await tabTo(page, is.dataTest('import-file'))
+    const zoneRing = await page.locator('[data-test=drop-zone]').evaluate(el => {
+      const s = getComputedStyle(el)
+      return s.outlineStyle !== 'none' && parseFloat(s.outlineWidth) >= 1
+    })
+    expect(zoneRing, 'the drop zone shows the file picker’s keyboard focus').toBe(true)
+    const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.keyboard.press('Space')])
+    // The operating system's dialog is outside the app: the test hands the chosen file to the browser.
+    await chooser.setFiles({ name: 'keyboard-upload.xlsx', mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet', buffer: await workbookOf(validProject('KBD-002') as Parameters<typeof workbookOf>[0]) })
+    await page.locator('[data-test=run-detail] [data-test=run-counts]').waitFor({ timeout: 45_000 })
+    expect(await page.locator('[data-test=run-detail] [data-test=count-loaded]').innerText()).toBe('1')
+    expect(await page.locator('[data-test=run-detail] [data-test=count-rejected]').innerText()).toBe('0')
+
     // The tabs follow the WAI-ARIA tabs pattern: the selected tab is the one Tab stop, arrow keys move between tabs.
-    await tabTo(page, is.tab('Upload'))
+    await tabTo(page, is.tab('Upload'), { back: true })
     await expectFocusVisible(page)
     expect(await page.locator('[role=tablist] [role=tab]').count()).toBe(5)
     await page.keyboard.press('ArrowRight')
