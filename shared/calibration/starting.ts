@@ -59,6 +59,11 @@ export function shrunkQuantile(groupSorted: ArrayLike<number>, firmSorted: Array
   const firmValue = quantileOfSorted(firmSorted, p)
   const n = groupSorted.length ? groupProjects : 0
   const groupValue = groupSorted.length ? quantileOfSorted(groupSorted, p) : null
+  return shrinkToward(groupValue, firmValue, n, minGroupSize)
+}
+
+/** The shrinkage step of `shrunkQuantile` from the two values: n comparable projects (0 for an empty group). */
+export function shrinkToward(groupValue: number | null, firmValue: number, n: number, minGroupSize: number): ShrunkValue {
   const weight = credibilityWeight(n, minGroupSize)
   const suggested = groupValue === null ? firmValue : weight * groupValue + (1 - weight) * firmValue
   return { groupValue, firmValue, weight, shrunk: weight < 1, suggested }
@@ -89,14 +94,22 @@ const pick = (col: ArrayLike<number>, rows: ArrayLike<number>) => {
 
 /**
  * The firm's habit: the median assumed value over the last `habitYears` years of the group,
- * counted back from the group's latest year designed (years > latest − habitYears). Null for an empty group.
+ * counted back from the group's latest year designed (years > latest − habitYears). Rows without a
+ * year designed cannot be placed in time and do not count. Null for an empty group, or one whose
+ * rows all lack the year.
  */
 export function habitOf(cols: FactorColumns, rows: ArrayLike<number>, habitYears: number): number | null {
-  if (!rows.length) return null
   let latest = -Infinity
-  for (let i = 0; i < rows.length; i++) latest = Math.max(latest, cols.yearDesigned[rows[i]!]!)
+  for (let i = 0; i < rows.length; i++) {
+    const y = cols.yearDesigned[rows[i]!]!
+    if (Number.isFinite(y) && y > latest) latest = y
+  }
+  if (latest === -Infinity) return null
   const recent: number[] = []
-  for (let i = 0; i < rows.length; i++) if (cols.yearDesigned[rows[i]!]! > latest - habitYears) recent.push(cols.assumed[rows[i]!]!)
+  for (let i = 0; i < rows.length; i++) {
+    const y = cols.yearDesigned[rows[i]!]!
+    if (Number.isFinite(y) && y > latest - habitYears) recent.push(cols.assumed[rows[i]!]!)
+  }
   return quantileOfSorted(sortedCopy(recent), 0.5)
 }
 
@@ -109,10 +122,13 @@ export interface SuggestOptions {
   habitYears: number
 }
 
-/** One starting suggestion for a quantity on one basis, from the comparable group's rows and the firm's rows. */
-export function suggestStarting(cols: FactorColumns, groupRows: ArrayLike<number>, firmRows: ArrayLike<number>, o: SuggestOptions, firmSorted?: Float64Array): StartingSuggestion {
+/**
+ * One starting suggestion for a quantity on one basis, from the comparable group's rows and the firm's rows.
+ * The caller may pass the firm's and the group's finals already sorted (the same values, ascending).
+ */
+export function suggestStarting(cols: FactorColumns, groupRows: ArrayLike<number>, firmRows: ArrayLike<number>, o: SuggestOptions, firmSorted?: Float64Array, groupSorted?: Float64Array): StartingSuggestion {
   const p = ruleQuantile(o.quantity, o.quantile)
-  const groupFinals = sortedCopy(pick(cols.final, groupRows))
+  const groupFinals = groupSorted ?? sortedCopy(pick(cols.final, groupRows))
   // The firm's finals sorted (the caller may pass them, computed once per data version).
   const firmFinals = firmSorted ?? sortedCopy(pick(cols.final, firmRows))
   const projects = new Set<number>()

@@ -76,6 +76,14 @@ describe('starting suggestion', () => {
     expect(s.rule).toMatch(/Median/)
   })
 
+  it('habit leaves out rows without a year designed, and is null when no row has one', () => {
+    // The hand-made history above with project 5's design year unknown: the latest known year is 2012,
+    // so a 2-year habit takes years > 2010: rows 1 (2011, 1.10) and 2 (2012, 1.15) → median 1.125.
+    const noYear: FactorColumns = { ...cols, yearDesigned: Float64Array.from(cols.yearDesigned, (y, i) => (i === 4 ? NaN : y)) }
+    expect(habitOf(noYear, [0, 1, 2, 4], 2)).toBeCloseTo(1.125, 10)
+    expect(habitOf({ ...cols, yearDesigned: new Float64Array(5).fill(NaN) }, [0, 1, 2, 4], 3)).toBeNull()
+  })
+
   it('habit is null and scores are zero for an empty group', () => {
     expect(habitOf(cols, [], 3)).toBeNull()
     expect(scoreValue(1, [])).toEqual({ underestimateRate: 0, meanConservatism: 0 })
