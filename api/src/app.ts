@@ -10,6 +10,7 @@ import type pg from 'pg'
 import { pino } from 'pino'
 import { pinoHttp } from 'pino-http'
 import { createPassport } from './auth'
+import { throttleTouch } from './session-store'
 import type { Config } from './config'
 import type { Db } from './db'
 import type { Mailer } from './mail/mailer'
@@ -97,7 +98,7 @@ export function createApp(options: AppOptions): Express {
     session({
       name: config.sessionCookieName,
       secret: config.sessionSecret,
-      store: new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: config.env === 'test' ? false : 900 }),
+      store: throttleTouch(new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: config.env === 'test' ? false : 900 }), 60_000),
       resave: false,
       saveUninitialized: false,
       rolling: true,

@@ -13,14 +13,15 @@
  * Options: BENCH_PROJECTS (default 5000), BENCH_CONNECTIONS (50), BENCH_DURATION (s, 60),
  * BENCH_IMPORT_PROJECTS (projects in the uploaded file, 200; 0 = no import), BENCH_TIMEOUT (s a
  * response may take before it counts as a timeout error, 30), BENCH_KEEP=1 keeps the work folder
- * (server log, upload file). Uses DATABASE_URL's server when set, otherwise starts a
+ * (server log, upload file), BENCH_CPU_PROF=1 has the server write a V8 CPU profile there (implies
+ * BENCH_KEEP). Uses DATABASE_URL's server when set, otherwise starts a
  * throwaway cluster like `npm test` does. Traffic goes to 127.0.0.1 only.
  */
 import { spawn, type ChildProcess } from 'node:child_process'
 import { randomBytes } from 'node:crypto'
 import { chmodSync, createWriteStream, existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs'
 import { tmpdir } from 'node:os'
-import { join, resolve } from 'node:path'
+import { dirname, join, resolve } from 'node:path'
 import { createInterface } from 'node:readline'
 import autocannon, { type Request as CannonRequest } from 'autocannon'
 import pg from 'pg'
@@ -88,7 +89,9 @@ async function startServer(env: NodeJS.ProcessEnv, logFile: string): Promise<Ser
   const port = await freePort()
   const log = createWriteStream(logFile)
   // node --import tsx (not npx tsx, which runs the server in a grandchild): this pid is the server.
-  const child = spawn(process.execPath, ['--import', 'tsx', join(ROOT, 'scripts/bench/load-server.ts')], {
+  // BENCH_CPU_PROF=1: the server writes a V8 CPU profile (.cpuprofile) into the work folder when it stops.
+  const profile = process.env.BENCH_CPU_PROF ? ['--cpu-prof', `--cpu-prof-dir=${dirname(logFile)}`] : []
+  const child = spawn(process.execPath, [...profile, '--import', 'tsx', join(ROOT, 'scripts/bench/load-server.ts')], {
     cwd: ROOT,
     env: { ...env, PORT: String(port) },
     stdio: ['ignore', 'pipe', 'pipe'],
@@ -484,14 +487,14 @@ async function main() {
         } catch {}
         reasons.set(why, (reasons.get(why) ?? 0) + 1)
       }
-      console.log(`server log: ${log.length} lines of warnings/errors (${process.env.BENCH_KEEP ? logFile : 'set BENCH_KEEP=1 to keep it'}):`)
+      console.log(`server log: ${log.length} lines of warnings/errors (${process.env.BENCH_KEEP || process.env.BENCH_CPU_PROF ? logFile : 'set BENCH_KEEP=1 to keep it'}):`)
       for (const [why, n] of [...reasons].sort((a, b) => b[1] - a[1]).slice(0, 5)) console.log(`  ${n}× ${why}`)
     }
   } finally {
     await server?.stop()
     await sink?.close()
     stopCluster()
-    if (!process.env.BENCH_KEEP) rmSync(work, { recursive: true, force: true })
+    if (!process.env.BENCH_KEEP && !process.env.BENCH_CPU_PROF) rmSync(work, { recursive: true, force: true })
     else console.log('kept', work)
   }
 }

@@ -1,6 +1,7 @@
 import { sql } from 'drizzle-orm'
 import type pg from 'pg'
 import type { Db, DbOrTx } from './index'
+import { sharedRead } from './shared-read'
 
 /**
  * The `calibration_pairs` materialized view (migration 0004): one row per brace and assumed phase
@@ -22,8 +23,15 @@ export function poolOf(db: Db): pg.Pool {
   return (db as unknown as { $client: pg.Pool }).$client
 }
 
-/** The current data version of the calibration pairs. */
-export async function calibrationVersion(db: Db): Promise<number> {
-  const res = await poolOf(db).query<{ v: string }>('select version::text as v from calibration_state where id = 1')
+const readVersion = sharedRead(async (pool: pg.Pool): Promise<number> => {
+  const res = await pool.query<{ v: string }>('select version::text as v from calibration_state where id = 1')
   return Number(res.rows[0]?.v ?? 0)
+})
+
+/**
+ * The current data version of the calibration pairs. Every analytics request asks for it, so
+ * concurrent callers share queries (see sharedRead: never an answer from a query sent before the call).
+ */
+export function calibrationVersion(db: Db): Promise<number> {
+  return readVersion(poolOf(db))
 }

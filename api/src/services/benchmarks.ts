@@ -22,13 +22,29 @@ export const audienceOf = (role: Role | undefined): Audience => (role === 'bd' ?
 
 type Filters = Pick<BenchmarkQuery, 'yearFrom' | 'yearTo' | 'use' | 'sdc' | 'region'>
 
-/** Every finished project matching `filters`, with the figures the benchmarks need. */
-const projectsCache = historyCache<BenchmarkProject[]>()
+/** Every finished project with the figures the benchmarks need, read once per data version. */
+const projectsCache = historyCache<BenchmarkProject[]>(1)
 
-/** The finished projects behind the benchmarks (cached per data version and filter). */
-export function loadBenchmarkProjects(db: Db, filters: Filters = {}): Promise<BenchmarkProject[]> {
-  const key = JSON.stringify([filters.yearFrom, filters.yearTo, filters.use, filters.sdc, filters.region])
-  return projectsCache(db, key, () => queryBenchmarkProjects(db, filters))
+/**
+ * The finished projects behind the benchmarks matching `filters`: the whole list is read once per
+ * data version and filtered here, the way the query's own conditions would (a missing year, use,
+ * SDC or region never matches a filter on it).
+ */
+export async function loadBenchmarkProjects(db: Db, filters: Filters = {}): Promise<BenchmarkProject[]> {
+  const all = await projectsCache(db, 'all', () => queryBenchmarkProjects(db, {}))
+  const { yearFrom, yearTo } = filters
+  const use = filters.use?.length ? new Set<string>(filters.use) : null
+  const sdc = filters.sdc?.length ? new Set<string>(filters.sdc) : null
+  const region = filters.region?.length ? new Set<string>(filters.region) : null
+  if (yearFrom === undefined && yearTo === undefined && !use && !sdc && !region) return all
+  return all.filter(
+    p =>
+      (yearFrom === undefined || (p.yearDesigned !== null && p.yearDesigned >= yearFrom)) &&
+      (yearTo === undefined || (p.yearDesigned !== null && p.yearDesigned <= yearTo)) &&
+      (!use || (p.buildingUse !== null && use.has(p.buildingUse))) &&
+      (!sdc || (p.sdc !== null && sdc.has(p.sdc))) &&
+      (!region || (p.region !== null && region.has(p.region))),
+  )
 }
 
 async function queryBenchmarkProjects(db: Db, filters: Filters): Promise<BenchmarkProject[]> {

@@ -14,11 +14,12 @@ import {
   QUANTITY_INFO,
   MISS_SORTS,
 } from '@shared/schemas/calibration'
-import { backtest, costOfConservatism, histogramBins, quantileOfSorted, sortedCopy, suggestStarting, summarizeRatios, yearBand, STARTING_CAUTIONS, type FactorColumns, type TonnageByCategory } from '@shared/calibration'
+import { costOfConservatism, histogramBins, quantileOfSorted, sortedCopy, suggestStarting, summarizeRatios, yearBand, STARTING_CAUTIONS, type TonnageByCategory } from '@shared/calibration'
 import type { Db } from '../../db'
 import { poolOf } from '../../db/calibration'
 import { getSizingDefaults } from '../settings'
 import { getCalibrationSettings } from './settings'
+import { backtestIndexed, groupSortedFinals, startingIndex } from './starting-index'
 import { cached, phaseData, selectRows, type PhaseData } from './store'
 
 /** Points of one quantity: row indices with a value, plus the group label of each. */
@@ -49,6 +50,33 @@ function groupLabeller(d: PhaseData, by: CalibrationGrouping): (row: number) => 
   }
 }
 
+const groupCodesOf = new WeakMap<PhaseData, Map<CalibrationGrouping, { codes: Int32Array; values: string[] }>>()
+/** Each row's group label under `by`, as a code into `values` (worked out once per phase data). */
+function groupCodes(d: PhaseData, by: CalibrationGrouping): { codes: Int32Array; values: string[] } {
+  let m = groupCodesOf.get(d)
+  if (!m) groupCodesOf.set(d, (m = new Map()))
+  let g = m.get(by)
+  if (!g) {
+    const label = groupLabeller(d, by)
+    const codes = new Int32Array(d.n)
+    const values: string[] = []
+    const index = new Map<string, number>()
+    for (let r = 0; r < d.n; r++) {
+      const v = label(r)
+      let c = index.get(v)
+      if (c === undefined) {
+        c = values.length
+        values.push(v)
+        index.set(v, c)
+      }
+      codes[r] = c
+    }
+    g = { codes, values }
+    m.set(by, g)
+  }
+  return g
+}
+
 /** The filtered rows that carry `quantity`, with their group labels. */
 export async function pointRows(db: Db, filters: CalibrationFilters, quantity: CalibrationQuantity, groupBy: CalibrationGrouping): Promise<PointRows> {
   const data = await phaseData(db, filters.phase)
@@ -57,18 +85,18 @@ export async function pointRows(db: Db, filters: CalibrationFilters, quantity: C
   const rows = new Int32Array(all.length)
   const group = new Int32Array(all.length)
   const groups: string[] = []
-  const index = new Map<string, number>()
-  const label = groupLabeller(data, groupBy)
+  // Labels are numbered once per data version; here they are renumbered in order of first appearance.
+  const labels = groupCodes(data, groupBy)
+  const local = new Int32Array(labels.values.length).fill(-1)
   let m = 0
   for (let k = 0; k < all.length; k++) {
     const r = all[k]!
     if (basis[r]! < 0) continue
-    const g = label(r)
-    let c = index.get(g)
-    if (c === undefined) {
-      c = groups.length
-      groups.push(g)
-      index.set(g, c)
+    const g = labels.codes[r]!
+    let c = local[g]!
+    if (c < 0) {
+      c = local[g] = groups.length
+      groups.push(labels.values[g]!)
     }
     rows[m] = r
     group[m++] = c
@@ -121,7 +149,10 @@ export async function calibrationSummary(db: Db, filters: CalibrationFilters, qu
   return cached(db, key('summary', filters, quantity, groupBy, tolerance), async () => {
     const pts = await pointRows(db, filters, quantity, groupBy)
     const col = pts.data.q[quantity]
-    const byGroup = new Map<string, number[]>()
+    // Ratios per (group, basis), in order of first appearance (a numeric key, not a string per row).
+    const nb = col.bases.length
+    const slot = new Int32Array(pts.groups.length * nb).fill(-1)
+    const byGroup: { g: number; b: number; ratios: number[] }[] = []
     const byBasis = new Map<number, number[]>()
     let min = Infinity
     let max = -Infinity
@@ -129,8 +160,12 @@ export async function calibrationSummary(db: Db, filters: CalibrationFilters, qu
       const r = pts.rows[k]!
       const ratio = col.assumed[r]! / col.final[r]!
       const b = col.basis[r]!
-      const gk = `${pts.group[k]}|${b}`
-      ;(byGroup.get(gk) ?? byGroup.set(gk, []).get(gk)!).push(ratio)
+      const gk = pts.group[k]! * nb + b
+      if (slot[gk]! < 0) {
+        slot[gk] = byGroup.length
+        byGroup.push({ g: pts.group[k]!, b, ratios: [] })
+      }
+      byGroup[slot[gk]!]!.ratios.push(ratio)
       ;(byBasis.get(b) ?? byBasis.set(b, []).get(b)!).push(ratio)
       if (ratio < min) min = ratio
       if (ratio > max) max = ratio
@@ -138,11 +173,8 @@ export async function calibrationSummary(db: Db, filters: CalibrationFilters, qu
     const side = QUANTITY_INFO[quantity].side
     if (!pts.rows.length) return { quantity, side, tolerance, groups: [], overall: [] }
     const bins = histogramBins(min, max)
-    const groups = [...byGroup.entries()]
-      .map(([gk, ratios]) => {
-        const [g, b] = gk.split('|').map(Number) as [number, number]
-        return summarizeRatios(ratios, { group: pts.groups[g]!, basis: col.bases[b]!, tolerance, bins })
-      })
+    const groups = byGroup
+      .map(({ g, b, ratios }) => summarizeRatios(ratios, { group: pts.groups[g]!, basis: col.bases[b]!, tolerance, bins }))
       .sort((a, b) => a.group.localeCompare(b.group) || b.n - a.n)
     const overall = [...byBasis.entries()].map(([b, ratios]) => summarizeRatios(ratios, { group: 'all braces', basis: col.bases[b]!, tolerance, bins })).sort((a, b) => b.n - a.n)
     return { quantity, side, tolerance, groups, overall }
@@ -173,6 +205,26 @@ export async function calibrationTrend(db: Db, filters: CalibrationFilters, quan
   })
 }
 
+/**
+ * Per project, the rank of its code and of its supplier ('' when none) in `localeCompare` order
+ * (equal under localeCompare → equal rank), so sorting by rank is sorting by localeCompare.
+ */
+const ranksOf = new WeakMap<PhaseData, { code: Int32Array; supplier: Int32Array }>()
+function projectRanks(d: PhaseData): { code: Int32Array; supplier: Int32Array } {
+  let r = ranksOf.get(d)
+  if (!r) {
+    const rank = (values: string[]) => {
+      const order = values.map((_, i) => i).sort((a, b) => values[a]!.localeCompare(values[b]!))
+      const out = new Int32Array(values.length)
+      for (let k = 1; k < order.length; k++) out[order[k]!] = out[order[k - 1]!]! + (values[order[k - 1]!]!.localeCompare(values[order[k]!]!) === 0 ? 0 : 1)
+      return out
+    }
+    r = { code: rank(d.projects.code), supplier: rank(d.projects.supplier.map(v => v ?? '')) }
+    ranksOf.set(d, r)
+  }
+  return r
+}
+
 /** Misses: strength-side quantities, braces whose final exceeded the assumption; the stiffness factor, braces outside the band. */
 export async function calibrationMisses(db: Db, filters: CalibrationFilters, quantity: CalibrationQuantity, q: { sort: (typeof MISS_SORTS)[number]; dir: 'asc' | 'desc'; limit: number }): Promise<CalibrationMiss[]> {
   const tolerance = (await getSizingDefaults(db)).stiffnessTolerance
@@ -181,35 +233,48 @@ export async function calibrationMisses(db: Db, filters: CalibrationFilters, qua
     const d = pts.data
     const col = d.q[quantity]
     const band = QUANTITY_INFO[quantity].side === 'band'
-    const items: CalibrationMiss[] = []
+    const p = d.projects
+    const ranks = projectRanks(d)
+    const ratioOf = (r: number) => col.assumed[r]! / col.final[r]!
+    const sign = q.dir === 'asc' ? 1 : -1
+    const byRatio = (a: number, b: number) => ratioOf(a) - ratioOf(b)
+    // The sort of the full list of misses, on row indices (the same keys and tie-breaks, so the
+    // `limit` first rows kept while scanning are the first `limit` of the sorted list).
+    const cmp: Record<(typeof MISS_SORTS)[number], (a: number, b: number) => number> = {
+      ratio: byRatio,
+      project: (a, b) => ranks.code[d.project[a]!]! - ranks.code[d.project[b]!]! || byRatio(a, b),
+      year: (a, b) => (p.yearDesigned[d.project[a]!] ?? 0) - (p.yearDesigned[d.project[b]!] ?? 0) || byRatio(a, b),
+      supplier: (a, b) => ranks.supplier[d.project[a]!]! - ranks.supplier[d.project[b]!]! || byRatio(a, b),
+    }
+    const order = (a: number, b: number) => sign * cmp[q.sort](a, b) || d.braceId[a]! - d.braceId[b]!
+    const best: number[] = []
     for (const r of pts.rows) {
-      const ratio = col.assumed[r]! / col.final[r]!
+      const ratio = ratioOf(r)
       if (band ? Math.abs(ratio - 1) <= tolerance + 1e-12 : ratio >= 1) continue
+      if (best.length === q.limit) {
+        if (order(r, best[q.limit - 1]!) >= 0) continue
+        best.pop()
+      }
+      let i = best.length
+      while (i > 0 && order(r, best[i - 1]!) < 0) i--
+      best.splice(i, 0, r)
+    }
+    return best.map(r => {
       const pi = d.project[r]!
-      items.push({
+      return {
         braceId: d.braceId[r]!,
-        projectCode: d.projects.code[pi]!,
-        projectName: d.projects.name[pi]!,
+        projectCode: p.code[pi]!,
+        projectName: p.name[pi]!,
         frameLine: d.frameLine.values[d.frameLine.codes[r]!]!,
         level: d.level.values[d.level.codes[r]!]!,
-        supplier: d.projects.supplier[pi] ?? null,
-        yearDesigned: d.projects.yearDesigned[pi] ?? null,
+        supplier: p.supplier[pi] ?? null,
+        yearDesigned: p.yearDesigned[pi] ?? null,
         basis: col.bases[col.basis[r]!]!,
         assumed: col.assumed[r]!,
         final: col.final[r]!,
-        ratio,
-      })
-    }
-    const sign = q.dir === 'asc' ? 1 : -1
-    const byRatio = (a: CalibrationMiss, b: CalibrationMiss) => a.ratio - b.ratio
-    const cmp: Record<(typeof MISS_SORTS)[number], (a: CalibrationMiss, b: CalibrationMiss) => number> = {
-      ratio: byRatio,
-      project: (a, b) => a.projectCode.localeCompare(b.projectCode) || byRatio(a, b),
-      year: (a, b) => (a.yearDesigned ?? 0) - (b.yearDesigned ?? 0) || byRatio(a, b),
-      supplier: (a, b) => (a.supplier ?? '').localeCompare(b.supplier ?? '') || byRatio(a, b),
-    }
-    items.sort((a, b) => sign * cmp[q.sort](a, b) || a.braceId - b.braceId)
-    return items.slice(0, q.limit)
+        ratio: ratioOf(r),
+      }
+    })
   })
 }
 
@@ -264,35 +329,31 @@ export async function startingFactors(db: Db, query: StartingFactorsQuery): Prom
       yearFrom: query.yearFrom,
       yearTo: query.yearTo,
     })
-    const projectIds = Int32Array.from(d.project)
+    // Per-version ingredients (firm rows per basis, their sorted finals, the back-test's buckets);
+    // the query only marks its group and counts over them.
+    const index = startingIndex(d)
+    const inGroup = new Uint8Array(d.n)
+    for (const r of group) inGroup[r] = 1
     const suggestions: StartingSuggestion[] = []
     const backtests = {} as StartingFactors['backtest']
     for (const quantity of STARTING_QUANTITIES) {
       const col = d.q[quantity]
-      const cols: FactorColumns = { projectId: projectIds, yearDesigned: d.yearDesigned, yearCompleted: d.yearCompleted, assumed: col.assumed, final: col.final }
-      const firmBy = new Map<number, number[]>()
+      const { cols, bases: firmBy } = index[quantity]
       const groupBy = new Map<number, number[]>()
-      for (let r = 0; r < d.n; r++) {
-        const b = col.basis[r]!
-        if (b >= 0) (firmBy.get(b) ?? firmBy.set(b, []).get(b)!).push(r)
-      }
       for (const r of group) {
         const b = col.basis[r]!
         if (b >= 0) (groupBy.get(b) ?? groupBy.set(b, []).get(b)!).push(r)
       }
       // Bases of the comparable group (the firm's when the group has none), largest first.
-      const bases = [...(groupBy.size ? groupBy : firmBy).keys()].sort((a, b) => (groupBy.get(b)?.length ?? 0) - (groupBy.get(a)?.length ?? 0) || (firmBy.get(b)!.length - firmBy.get(a)!.length))
+      const bases = [...(groupBy.size ? groupBy : firmBy).keys()].sort((a, b) => (groupBy.get(b)?.length ?? 0) - (groupBy.get(a)?.length ?? 0) || (firmBy.get(b)!.rows.length - firmBy.get(a)!.rows.length))
       for (const b of bases) {
-        const firmRows = firmBy.get(b)!
-        const firmSorted = await cached(db, key('firm-finals', quantity, b), async () => {
-          const f = new Float64Array(firmRows.length)
-          for (let i = 0; i < firmRows.length; i++) f[i] = col.final[firmRows[i]!]!
-          return f.sort()
-        }, f => f.byteLength)
-        suggestions.push(suggestStarting(cols, groupBy.get(b) ?? [], firmRows, { quantity, basis: col.bases[b]!, quantile: query.quantile, minGroupSize: settings.minGroupSize, habitYears: settings.habitYears }, firmSorted))
+        const firm = firmBy.get(b)!
+        const groupRows = groupBy.get(b) ?? []
+        const opts = { quantity, basis: col.bases[b]!, quantile: query.quantile, minGroupSize: settings.minGroupSize, habitYears: settings.habitYears }
+        suggestions.push(suggestStarting(cols, groupRows, firm.rows, opts, firm.sorted, groupSortedFinals(firm, inGroup, groupRows.length)))
       }
       const primary = bases[0]
-      backtests[quantity] = primary === undefined ? [] : backtest(cols, groupBy.get(primary) ?? [], firmBy.get(primary)!, { quantity, quantile: query.quantile, minGroupSize: settings.minGroupSize })
+      backtests[quantity] = primary === undefined ? [] : backtestIndexed(cols, firmBy.get(primary)!, groupBy.get(primary) ?? [], inGroup, { quantity, quantile: query.quantile, minGroupSize: settings.minGroupSize })
     }
     const over = suggestions.find(s => s.quantity === 'overstrength')
     const sizing = await getSizingDefaults(db)

@@ -237,20 +237,29 @@ export function selectRows(d: PhaseData, f: Partial<CalibrationFilters>): Int32A
   return out.subarray(0, m)
 }
 
+interface CacheEntry {
+  value: Promise<unknown>
+  /** Size once the value is known (0 while it is being computed). */
+  bytes: number
+}
+
 interface Store {
   version: number
   phases: Map<string, Promise<PhaseData>>
-  cache: Map<string, { value: unknown; bytes: number }>
+  /** Answers by key, least recently used first (a Map keeps insertion order; a hit moves to the end). */
+  cache: Map<string, CacheEntry>
   cacheBytes: number
 }
 
 const stores = new WeakMap<Db, Store>()
 /** Bytes of cached answers kept per database (bodies of large point sets count by size). */
-const CACHE_BUDGET = 192 * 1024 * 1024
+export const CACHE_BUDGET = 64 * 1024 * 1024
 
 async function storeFor(db: Db): Promise<Store> {
   const version = await calibrationVersion(db)
   let s = stores.get(db)
+  // Version answers reach their callers in the order the queries were sent (one query out at a
+  // time, see calibrationVersion), so a differing version is the newer one.
   if (!s || s.version !== version) {
     s = { version, phases: new Map(), cache: new Map(), cacheBytes: 0 }
     stores.set(db, s)
@@ -258,40 +267,68 @@ async function storeFor(db: Db): Promise<Store> {
   return s
 }
 
-/** The pairs of `phase` at the current data version (loaded once per version). */
+/**
+ * The pairs of `phase` at the current data version, loaded once per version: requests that arrive
+ * while it loads wait for the same load (no second load starts).
+ */
 export async function phaseData(db: Db, phase: string): Promise<PhaseData> {
   const s = await storeFor(db)
   let p = s.phases.get(phase)
   if (!p) {
     p = loadPhase(db, phase, s.version)
     s.phases.set(phase, p)
-    p.catch(() => s.phases.delete(phase))
+    p.catch(() => {
+      if (s.phases.get(phase) === p) s.phases.delete(phase)
+    })
   }
   return p
 }
 
+/** Rough size of a JSON-like answer: twice its JSON length (strings are UTF-16 in memory). */
+export const jsonBytes = (v: unknown): number => 2 * (JSON.stringify(v)?.length ?? 0)
+
 /**
- * An answer computed once per data version and key; `bytes` sizes it against the cache budget
- * (oldest entries leave first).
+ * An answer computed once per data version and key. Concurrent first requests for a key share one
+ * computation; a failed computation is not kept. `bytes` sizes the answer against the cache budget
+ * (least recently used entries leave first), so the cache stays bounded.
  */
-export async function cached<T>(db: Db, key: string, compute: (version: number) => Promise<T>, bytesOf: (v: T) => number = () => 4096): Promise<T> {
+export async function cached<T>(db: Db, key: string, compute: (version: number) => Promise<T>, bytesOf: (v: T) => number = jsonBytes): Promise<T> {
   const s = await storeFor(db)
   const hit = s.cache.get(key)
   if (hit) {
     s.cache.delete(key)
     s.cache.set(key, hit)
-    return hit.value as T
+    return hit.value as Promise<T>
   }
-  const value = await compute(s.version)
-  const bytes = bytesOf(value)
-  if (bytes <= CACHE_BUDGET / 4 && stores.get(db) === s) {
-    s.cache.set(key, { value, bytes })
-    s.cacheBytes += bytes
-    for (const [k, e] of s.cache) {
-      if (s.cacheBytes <= CACHE_BUDGET) break
-      s.cache.delete(k)
-      s.cacheBytes -= e.bytes
-    }
-  }
+  const value = compute(s.version)
+  const entry: CacheEntry = { value, bytes: 0 }
+  s.cache.set(key, entry)
+  value.then(
+    v => {
+      if (s.cache.get(key) !== entry) return
+      const bytes = bytesOf(v)
+      if (bytes > CACHE_BUDGET / 4) {
+        s.cache.delete(key)
+        return
+      }
+      entry.bytes = bytes
+      s.cacheBytes += bytes
+      for (const [k, e] of s.cache) {
+        if (s.cacheBytes <= CACHE_BUDGET) break
+        if (e === entry) continue
+        s.cache.delete(k)
+        s.cacheBytes -= e.bytes
+      }
+    },
+    () => {
+      if (s.cache.get(key) === entry) s.cache.delete(key)
+    },
+  )
   return value
+}
+
+/** The cache of `db`'s current store, for tests: entries and bytes held. */
+export function cacheStats(db: Db): { version: number; entries: number; bytes: number } | undefined {
+  const s = stores.get(db)
+  return s && { version: s.version, entries: s.cache.size, bytes: s.cacheBytes }
 }

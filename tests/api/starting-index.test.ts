@@ -1,0 +1,99 @@
+import { describe, expect, it } from 'vitest'
+import { STARTING_QUANTITIES } from '@shared/schemas/calibration'
+import { backtest, suggestStarting, type FactorColumns } from '@shared/calibration'
+import { backtestIndexed, groupSortedFinals, startingIndex } from '../../api/src/services/calibration/starting-index'
+import type { PhaseData } from '../../api/src/services/calibration/store'
+
+// The starting-factor answers worked out on the per-version index (sorted firm rows, Fenwick
+// order statistics for the back-test's growing pools) must equal, value for value, what the
+// straightforward `suggestStarting` / `backtest` of shared/calibration/starting.ts give on the same
+// rows (their own tests check those against worked examples). Random histories, with ties, missing
+// completion years and a missing design year, exercise the edge cases.
+
+function rng(seed: number) {
+  let a = seed >>> 0
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0
+    let t = a
+    t = Math.imul(t ^ (t >>> 15), t | 1)
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
+  }
+}
+
+/** A phase's columns: `projects` projects of 1–12 braces, two bases per quantity, finals rounded (ties). */
+function history(seed: number, projects: number, missingDesignYear: boolean): PhaseData {
+  const rand = rng(seed)
+  const project: number[] = []
+  const yd: number[] = []
+  const yc: number[] = []
+  for (let p = 0; p < projects; p++) {
+    const year = missingDesignYear && p === 3 ? NaN : 2005 + Math.floor(rand() * 18)
+    const done = rand() < 0.25 ? NaN : year + Math.floor(rand() * 4)
+    const braces = 1 + Math.floor(rand() * 12)
+    for (let b = 0; b < braces; b++) {
+      project.push(p)
+      yd.push(year)
+      yc.push(done)
+    }
+  }
+  const n = project.length
+  const q = {} as PhaseData['q']
+  for (const quantity of STARTING_QUANTITIES) {
+    const assumed = new Float64Array(n).fill(NaN)
+    const final = new Float64Array(n).fill(NaN)
+    const basis = new Int32Array(n).fill(-1)
+    for (let i = 0; i < n; i++) {
+      if (rand() < 0.1) continue // no pair for this quantity
+      basis[i] = rand() < 0.7 ? 0 : 1
+      final[i] = Math.round((1 + rand()) * 20) / 20
+      assumed[i] = Math.round((1 + rand()) * 20) / 20
+    }
+    q[quantity] = { assumed, final, basis, bases: ['basis A', 'basis B'] }
+  }
+  return { n, project: Int32Array.from(project), yearDesigned: Float64Array.from(yd), yearCompleted: Float64Array.from(yc), q } as unknown as PhaseData
+}
+
+describe('starting factors on the per-version index', () => {
+  for (const [seed, projects, missing] of [
+    [1, 40, false],
+    [2, 120, true],
+    [3, 7, false],
+  ] as const) {
+    it(`equal suggestStarting and backtest (history ${seed}: ${projects} projects${missing ? ', one without a design year' : ''})`, () => {
+      const d = history(seed, projects, missing)
+      const ix = startingIndex(d)
+      const rand = rng(seed + 100)
+      let compared = 0
+      for (let trial = 0; trial < 12; trial++) {
+        // A group: a random subset of projects (about a third), or none at all.
+        const inProject = Array.from({ length: projects }, () => rand() < 0.35)
+        if (trial === 0) inProject.fill(false)
+        // Project 3 of history 2 has no design year: it stays firm-only (in a group, the existing
+        // habitOf has no recent rows and throws, on either path).
+        if (missing) inProject[3] = false
+        const inGroup = new Uint8Array(d.n)
+        for (let r = 0; r < d.n; r++) inGroup[r] = Number(inProject[d.project[r]!])
+        const quantile = [0.5, 0.75, 0.9, 0.95][trial % 4]!
+        for (const quantity of STARTING_QUANTITIES) {
+          const { cols, bases } = ix[quantity]
+          const projectId = Int32Array.from(d.project)
+          const plain: FactorColumns = { projectId, yearDesigned: d.yearDesigned, yearCompleted: d.yearCompleted, assumed: d.q[quantity].assumed, final: d.q[quantity].final }
+          for (const [b, firm] of bases) {
+            const firmRows = [...Array(d.n).keys()].filter(r => d.q[quantity].basis[r] === b)
+            const groupRows = firmRows.filter(r => inGroup[r])
+            expect([...firm.rows]).toEqual(firmRows)
+            const o = { quantity, basis: `basis ${b}`, quantile, minGroupSize: 8, habitYears: 3 }
+            const expected = suggestStarting(plain, groupRows, firmRows, o)
+            expect(suggestStarting(cols, groupRows, firm.rows, o, firm.sorted, groupSortedFinals(firm, inGroup, groupRows.length))).toEqual(expected)
+            const bt = backtest(plain, groupRows, firmRows, { quantity, quantile, minGroupSize: 8 })
+            expect(backtestIndexed(cols, firm, groupRows, inGroup, { quantity, quantile, minGroupSize: 8 })).toEqual(bt)
+            compared += bt.length
+          }
+        }
+      }
+      // The comparison covered real back-test years, not only empty answers.
+      expect(compared).toBeGreaterThan(50)
+    })
+  }
+})
