@@ -1,9 +1,9 @@
 import { createHash } from 'node:crypto'
 import { readFile } from 'node:fs/promises'
-import { eq, sql } from 'drizzle-orm'
+import { eq, inArray, sql } from 'drizzle-orm'
 import type { ImportProblem, ProjectRecord } from '@shared/history/types'
 import type { Db } from '../../api/src/db'
-import { importProblems, importRuns, projects } from '../../api/src/db/history-schema'
+import { importProblems, importRuns, projects, suppliers } from '../../api/src/db/history-schema'
 import { refreshCalibrationPairs } from '../../api/src/db/calibration'
 import { loadProjects, upsertSuppliers } from './load'
 import { applyFolderAbout, readBundle, ReadError } from './readers'
@@ -112,7 +112,9 @@ export async function runImport(db: Db, inputs: ImportInput[], options: RunOptio
   const run = { id: runId }
   summary.runId = run.id
 
+  const suppliersBefore = await supplierCodes(db)
   await upsertSuppliers(db, assembled.suppliers)
+  const suppliersAfter = await supplierCodes(db)
   progress('load', 0, assembled.projects.length)
   const result = await loadProjects(db, assembled.projects, { runId: run.id, replaceEdited: options.replaceEdited, onProgress: (d, t) => progress('load', d, t) })
   progress('load', assembled.projects.length, assembled.projects.length)
@@ -121,8 +123,11 @@ export async function runImport(db: Db, inputs: ImportInput[], options: RunOptio
   summary.updated = result.updated.length
   summary.unchanged = result.unchanged.length
   summary.rejected += result.failed.length
-  // Analytics read the calibration pairs view: rebuild it from what was just loaded.
-  await refreshCalibrationPairs(db)
+  // Analytics read the calibration pairs: rewrite the rows of the projects just stored (loaded or
+  // replaced; unchanged and refused ones did not change). Pairs carry their supplier's code, so a
+  // stored supplier whose code changed or vanished reaches projects outside the file: refresh all.
+  const supplierMoved = [...suppliersBefore].some(([id, code]) => suppliersAfter.get(id) !== code)
+  await refreshCalibrationPairs(db, supplierMoved ? null : await projectIdsOf(db, [...result.loaded, ...result.updated]))
   summary.durationMs = Date.now() - t0
 
   for (let i = 0; i < summary.problems.length; i += 2_000) {
@@ -136,6 +141,19 @@ export async function runImport(db: Db, inputs: ImportInput[], options: RunOptio
     .set({ status: 'finished', loaded: summary.loaded, updated: summary.updated, unchanged: summary.unchanged, rejected: summary.rejected, queued: summary.queued, finishedAt: new Date() })
     .where(eq(importRuns.id, run.id))
   return summary
+}
+
+async function supplierCodes(db: Db): Promise<Map<number, string>> {
+  return new Map((await db.select({ id: suppliers.id, code: suppliers.code }).from(suppliers)).map(s => [s.id, s.code]))
+}
+
+async function projectIdsOf(db: Db, codes: string[]): Promise<number[]> {
+  const ids: number[] = []
+  for (let i = 0; i < codes.length; i += 5_000) {
+    const rows = await db.select({ id: projects.id }).from(projects).where(inArray(projects.code, codes.slice(i, i + 5_000)))
+    ids.push(...rows.map(r => r.id))
+  }
+  return ids
 }
 
 /** Reads files from disk for the CLI. */

@@ -42,5 +42,6 @@ export type MailMessage = z.infer<typeof MailMessage>
 export const MailboxResponse = z.object({ enabled: z.boolean(), items: z.array(MailSummary) })
 export type MailboxResponse = z.infer<typeof MailboxResponse>
 
-export const HealthResponse = z.object({ status: z.enum(['ok', 'degraded']), database: z.enum(['up', 'down']), version: z.string() })
+/** `analytics`: whether the calibration columns are loaded ('warming' until the first load ends); never changes the status code. */
+export const HealthResponse = z.object({ status: z.enum(['ok', 'degraded']), database: z.enum(['up', 'down']), analytics: z.enum(['warming', 'ready']), version: z.string() })
 export type HealthResponse = z.infer<typeof HealthResponse>

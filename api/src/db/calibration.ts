@@ -4,14 +4,18 @@ import type { Db, DbOrTx } from './index'
 import { sharedRead } from './shared-read'
 
 /**
- * The `calibration_pairs` materialized view (migration 0004): one row per brace and assumed phase
- * with both snapshots' values. `refreshCalibrationPairs` rebuilds it and bumps
- * `calibration_state.version`, which the API's in-process analytics cache compares on every request.
+ * The `calibration_pairs` table (migrations 0004, 0007): one row per brace and assumed phase with
+ * both snapshots' values. `refreshCalibrationPairs` rewrites the rows of the projects that changed
+ * and bumps `calibration_state.version` (logging the projects in `calibration_changes`), which the
+ * API's in-process analytics cache compares on every request.
  * Call it after anything that changes snapshots, their confirmation or the projects: an import run,
- * a review-queue resolution, a draft save.
+ * a review-queue resolution, a draft save, a project edit. Pass the ids of every project whose
+ * rows may have changed (deleted projects included); pass nothing (a full refresh) when a change
+ * can reach projects beyond those — e.g. a supplier's code changing.
  */
-export async function refreshCalibrationPairs(db: DbOrTx): Promise<number> {
-  const res = await db.execute<{ v: string }>(sql`select refresh_calibration_pairs()::text as v`)
+export async function refreshCalibrationPairs(db: DbOrTx, projectIds?: readonly number[] | null): Promise<number> {
+  const ids = projectIds ? `{${[...new Set(projectIds)].map(id => String(Math.trunc(id))).join(',')}}` : null
+  const res = await db.execute<{ v: string }>(sql`select refresh_calibration_pairs(${ids}::integer[])::text as v`)
   return Number(res.rows[0]!.v)
 }
 

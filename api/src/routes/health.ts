@@ -2,6 +2,7 @@ import { sql } from 'drizzle-orm'
 import type { HealthResponse } from '@shared/schemas/users'
 import type { AppDeps } from '../app'
 import type { RouteSpec } from './route-table'
+import { analyticsReady } from '../services/calibration/store'
 
 export const VERSION = '0.1.0'
 
@@ -22,7 +23,7 @@ export function healthRoutes({ db }: AppDeps): RouteSpec[] {
         } catch {
           database = 'down'
         }
-        const body: HealthResponse = { status: database === 'up' ? 'ok' : 'degraded', database, version: VERSION }
+        const body: HealthResponse = { status: database === 'up' ? 'ok' : 'degraded', database, analytics: analyticsReady(db) ? 'ready' : 'warming', version: VERSION }
         res.status(database === 'up' ? 200 : 503).json(body)
       },
     },

@@ -71,6 +71,7 @@ export async function createDraftProject(db: Db, actorId: number, name: string, 
     await tx.insert(auditLog).values({ actorId, action: 'project.create-draft', entity: 'project', entityId: code, detail: { name, levels: result.levels.length } })
     return { projectId: project!.id, code }
   })
-  await refreshCalibrationPairs(db)
+  // A draft never counts in analytics, but the history caches follow the data version.
+  await refreshCalibrationPairs(db, [saved.projectId])
   return saved
 }

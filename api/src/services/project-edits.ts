@@ -25,8 +25,10 @@ function assertUnchangedSince(project: { updatedAt: Date }, expected: string | u
 
 /** `PATCH /api/projects/:code`. Audit detail: the changed fields, before and after. */
 export async function patchProject(db: Db, actorId: number, code: string, body: PatchProjectBody): Promise<ProjectDetail> {
+  let projectId: number | undefined
   await db.transaction(async tx => {
     const before = await projectByCode(tx, code)
+    projectId = before.id
     const { supplierCode, expectedUpdatedAt, ...fields } = body
     assertUnchangedSince(before, expectedUpdatedAt, code)
     const set: Partial<typeof projects.$inferInsert> = { ...fields }
@@ -57,8 +59,8 @@ export async function patchProject(db: Db, actorId: number, code: string, body: 
     if (!done.length) throw changedMeanwhile(code)
     await tx.insert(auditLog).values({ actorId, action: 'project.update', entity: 'project', entityId: code, detail: { before: changedBefore, after: changedAfter } })
   })
-  // Analytics and the history caches follow the edit (a new data version).
-  await refreshCalibrationPairs(db)
+  // Analytics and the history caches follow the edit (a new data version; only this project's pairs are rewritten).
+  await refreshCalibrationPairs(db, projectId === undefined ? [] : [projectId])
   return getProject(db, code)
 }
 
@@ -126,9 +128,9 @@ export async function createSnapshot(db: Db, actorId: number, code: string, body
       detail: { projectCode: code, frameLine: body.frameLine, level: body.level, phase: body.phase, revision, governing: body.governing, values: { ...values, adjustedTensionKip: strengths.tensionKip, adjustedCompressionKip: strengths.compressionKip } },
     })
     const warnings = checkFactorRanges({ beta: body.beta, omega: body.omega, ...(body.stiffnessFactor ? { stiffnessFactor: body.stiffnessFactor } : {}), ...(body.ry && body.fyscBasis === 'specified_min' ? { ry: body.ry } : {}) })
-    return { code, frameLine: body.frameLine, level: body.level, snapshot, cautions: [...warnings.map(w => w.message), ...DESIGN_CAUTIONS] }
+    return { projectId: project.id, view: { code, frameLine: body.frameLine, level: body.level, snapshot, cautions: [...warnings.map(w => w.message), ...DESIGN_CAUTIONS] } satisfies SnapshotCreated }
   })
-  // The new supplier values count in analytics at once (a new data version).
-  await refreshCalibrationPairs(db)
-  return created
+  // The new supplier values count in analytics at once (a new data version; this project's pairs only).
+  await refreshCalibrationPairs(db, [created.projectId])
+  return created.view
 }

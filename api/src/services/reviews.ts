@@ -50,9 +50,12 @@ export async function listReviewItems(db: Db, status: ReviewItem['status'] | 'al
  * duplicate and "confirm" keeps it as a project of its own.
  */
 export async function resolveReviewItem(db: Db, actorId: number, itemId: number, body: ResolveReviewBody): Promise<ReviewItem> {
+  const changed: number[] = []
   const resolved = await db.transaction(async tx => {
     const [item] = await tx.select().from(reviewItems).where(eq(reviewItems.id, itemId)).for('update')
     if (!item) throw notFound('That review item')
+    // The item's project (read before a discard deletes it): the only one whose pairs change.
+    changed.push(...(await tx.select({ id: projects.id }).from(projects).where(eq(projects.code, item.projectCode))).map(p => p.id))
     if (item.status !== 'open') throw conflict(`This item was already ${item.status}.`)
     const status = body.action === 'confirm' ? 'confirmed' : body.action === 'correct' ? 'corrected' : 'discarded'
     const detail: Record<string, unknown> = { field: item.field, value: item.value, action: body.action }
@@ -86,8 +89,8 @@ export async function resolveReviewItem(db: Db, actorId: number, itemId: number,
     const [after] = await listReviewItemsByIds(tx, [itemId])
     return after!
   })
-  // What analytics see changed (a value confirmed, corrected or discarded): rebuild the calibration pairs.
-  await refreshCalibrationPairs(db)
+  // What analytics see changed (a value confirmed, corrected or discarded): rewrite that project's calibration pairs.
+  await refreshCalibrationPairs(db, changed)
   return resolved
 }
 

@@ -1,5 +1,6 @@
 import { CALIBRATION_QUANTITIES, type CalibrationFilters, type CalibrationQuantity } from '@shared/schemas/calibration'
 import { pairValue, type PairSnapshot } from '@shared/calibration/pairs'
+import type pg from 'pg'
 import type { Db } from '../../db'
 import { calibrationVersion, poolOf } from '../../db/calibration'
 
@@ -57,13 +58,15 @@ export interface PhaseData {
   q: Record<CalibrationQuantity, QuantityColumns>
 }
 
-const COLUMNS = [
-  'brace_id', 'project_id', 'project_code', 'project_name', 'frame_line', 'level_name', 'configuration', 'supplier_code', 'office', 'building_use', 'sdc',
-  'aisc341_edition', 'stories', 'year_designed', 'year_completed',
+/** Brace-level columns, read per row. */
+const ROW_COLUMNS = [
+  'brace_id', 'project_id', 'frame_line', 'level_name', 'configuration',
   'a_core_area_in2', 'a_fysc_ksi', 'a_fysc_basis', 'a_fysc_max_ksi', 'a_ry', 'a_beta', 'a_omega', 'a_factor_drift_multiple', 'a_stiffness_factor', 'a_tmax_kip', 'a_cmax_kip',
   'f_core_area_in2', 'f_fysc_ksi', 'f_fysc_basis', 'f_fysc_max_ksi', 'f_ry', 'f_beta', 'f_omega', 'f_factor_drift_multiple', 'f_stiffness_factor', 'f_tmax_kip', 'f_cmax_kip',
 ] as const
-const C = Object.fromEntries(COLUMNS.map((c, i) => [c, i])) as Record<(typeof COLUMNS)[number], number>
+const C = Object.fromEntries(ROW_COLUMNS.map((c, i) => [c, i])) as Record<(typeof ROW_COLUMNS)[number], number>
+/** Project-level columns: the same on every row of a project, so read once per project. */
+const PROJECT_COLUMNS = ['project_id', 'project_code', 'project_name', 'supplier_code', 'office', 'building_use', 'sdc', 'aisc341_edition', 'stories', 'year_designed', 'year_completed'] as const
 const BATCH = 50_000
 
 class DictBuilder {
@@ -102,10 +105,34 @@ const snap = (r: unknown[], o: number): PairSnapshot => ({
   cmaxKip: num(r[o + 10]),
 })
 
-/** Reads every pair of `phase` from the view, in batches (keyset on brace id), into columns. */
-export async function loadPhase(db: Db, phase: string, version: number): Promise<PhaseData> {
-  const pool = poolOf(db)
-  const count = Number((await pool.query<{ n: string }>('select count(*)::text as n from calibration_pairs where phase = $1', [phase])).rows[0]!.n)
+type ProjectRow = unknown[]
+const emptyProjects = (): ProjectColumns => ({ id: [], code: [], name: [], supplier: [], office: [], use: [], sdc: [], edition: [], stories: [], yearDesigned: [], yearCompleted: [] })
+
+function pushProject(p: ProjectColumns, r: ProjectRow) {
+  p.id.push(r[0] as number)
+  p.code.push(r[1] as string)
+  p.name.push(r[2] as string)
+  p.supplier.push((r[3] as string | null) ?? null)
+  p.office.push((r[4] as string | null) ?? null)
+  p.use.push((r[5] as string | null) ?? null)
+  p.sdc.push((r[6] as string | null) ?? null)
+  p.edition.push((r[7] as string | null) ?? null)
+  p.stories.push(num(r[8]))
+  p.yearDesigned.push(num(r[9]))
+  p.yearCompleted.push(num(r[10]))
+}
+
+/** Copies project `j` of `from` to the end of `to`. */
+function copyProject(to: ProjectColumns, from: ProjectColumns, j: number) {
+  for (const k of Object.keys(to) as (keyof ProjectColumns)[]) (to[k] as unknown[]).push(from[k][j])
+}
+
+/**
+ * Columns of `count` pair rows arriving in brace-id order (`rows` yields them batch by batch), with
+ * project attributes from `projectRows` (one row per project). Project indices, dictionary codes and
+ * bases are numbered by first appearance in that order.
+ */
+async function buildColumns(phase: string, version: number, count: number, projectRows: Map<number, ProjectRow>, batches: AsyncIterable<unknown[][]>): Promise<PhaseData> {
   const braceId = new Int32Array(count)
   const project = new Int32Array(count)
   const frameLine = new DictBuilder(count)
@@ -118,35 +145,21 @@ export async function loadPhase(db: Db, phase: string, version: number): Promise
     CALIBRATION_QUANTITIES.map(k => [k, { assumed: new Float64Array(count).fill(NaN), final: new Float64Array(count).fill(NaN), basis: new Int32Array(count).fill(-1), bases: [] as string[] }]),
   ) as Record<CalibrationQuantity, QuantityColumns>
   const basisIndex = Object.fromEntries(CALIBRATION_QUANTITIES.map(k => [k, new Map<string, number>()])) as Record<CalibrationQuantity, Map<string, number>>
-  const projects: ProjectColumns = { id: [], code: [], name: [], supplier: [], office: [], use: [], sdc: [], edition: [], stories: [], yearDesigned: [], yearCompleted: [] }
+  const projects = emptyProjects()
   const projectIndex = new Map<number, number>()
 
   let i = 0
-  let after = -1
-  for (;;) {
-    const { rows } = await pool.query<unknown[]>({
-      text: `select ${COLUMNS.join(', ')} from calibration_pairs where phase = $1 and brace_id > $2 order by brace_id limit ${BATCH}`,
-      values: [phase, after],
-      rowMode: 'array',
-    })
+  for await (const rows of batches) {
     for (const r of rows) {
-      if (i >= count) break // rows appeared after the count (a refresh in between): the next version reloads
+      if (i >= count) throw new Error('calibration pairs: more rows than counted in one snapshot')
       const pid = r[C.project_id] as number
       let pi = projectIndex.get(pid)
       if (pi === undefined) {
+        const pr = projectRows.get(pid)
+        if (!pr) throw new Error(`calibration pairs: no attributes for project ${pid}`)
         pi = projects.id.length
         projectIndex.set(pid, pi)
-        projects.id.push(pid)
-        projects.code.push(r[C.project_code] as string)
-        projects.name.push(r[C.project_name] as string)
-        projects.supplier.push((r[C.supplier_code] as string | null) ?? null)
-        projects.office.push((r[C.office] as string | null) ?? null)
-        projects.use.push((r[C.building_use] as string | null) ?? null)
-        projects.sdc.push((r[C.sdc] as string | null) ?? null)
-        projects.edition.push((r[C.aisc341_edition] as string | null) ?? null)
-        projects.stories.push(num(r[C.stories]))
-        projects.yearDesigned.push(num(r[C.year_designed]))
-        projects.yearCompleted.push(num(r[C.year_completed]))
+        pushProject(projects, pr)
       }
       braceId[i] = r[C.brace_id] as number
       project[i] = pi
@@ -173,26 +186,250 @@ export async function loadPhase(db: Db, phase: string, version: number): Promise
       }
       i++
     }
-    if (rows.length < BATCH || i >= count) break
-    after = rows[rows.length - 1]![C.brace_id] as number
   }
-  const n = i
-  const cut = <T extends Int32Array | Float64Array>(a: T) => (n === count ? a : (a.subarray(0, n) as T))
+  if (i !== count) throw new Error(`calibration pairs: ${i} rows read, ${count} counted in one snapshot`)
   return {
     version,
     phase,
-    n,
-    braceId: cut(braceId),
-    project: cut(project),
+    n: count,
+    braceId,
+    project,
     projects,
-    frameLine: { codes: cut(frameLine.codes), values: frameLine.values },
-    level: { codes: cut(level.codes), values: level.values },
-    configuration: { codes: cut(configuration.codes), values: configuration.values },
-    finalCoreArea: cut(finalCoreArea),
-    yearDesigned: cut(yearDesigned),
-    yearCompleted: cut(yearCompleted),
-    q: Object.fromEntries(CALIBRATION_QUANTITIES.map(k => [k, { ...q[k], assumed: cut(q[k].assumed), final: cut(q[k].final), basis: cut(q[k].basis) }])) as PhaseData['q'],
+    frameLine: { codes: frameLine.codes, values: frameLine.values },
+    level: { codes: level.codes, values: level.values },
+    configuration: { codes: configuration.codes, values: configuration.values },
+    finalCoreArea,
+    yearDesigned,
+    yearCompleted,
+    q,
   }
+}
+
+/** A read-only REPEATABLE READ transaction: every query sees one snapshot, so one data version. */
+async function inSnapshot<T>(db: Db, work: (client: pg.PoolClient) => Promise<T>): Promise<T> {
+  const client = await poolOf(db).connect()
+  try {
+    await client.query('begin isolation level repeatable read read only')
+    const out = await work(client)
+    await client.query('commit')
+    return out
+  } catch (err) {
+    await client.query('rollback').catch(() => {})
+    throw err
+  } finally {
+    client.release()
+  }
+}
+
+async function readVersionIn(client: pg.PoolClient): Promise<number> {
+  const res = await client.query<{ v: string }>('select version::text as v from calibration_state where id = 1')
+  return Number(res.rows[0]?.v ?? 0)
+}
+
+async function projectRowsIn(client: pg.PoolClient, phase: string, ids: number[] | null): Promise<Map<number, ProjectRow>> {
+  const { rows } = await client.query<unknown[]>({
+    text: `select distinct on (project_id) ${PROJECT_COLUMNS.join(', ')} from calibration_pairs where phase = $1 ${ids ? 'and project_id = any($2::integer[])' : ''} order by project_id`,
+    values: ids ? [phase, ids] : [phase],
+    rowMode: 'array',
+  })
+  return new Map(rows.map(r => [r[0] as number, r]))
+}
+
+/** Every pair of `phase`, read in one snapshot (keyset batches on brace id), into columns. */
+async function fullLoadIn(client: pg.PoolClient, phase: string, version: number): Promise<PhaseData> {
+  const count = Number((await client.query<{ n: string }>('select count(*)::text as n from calibration_pairs where phase = $1', [phase])).rows[0]!.n)
+  const projectRows = await projectRowsIn(client, phase, null)
+  async function* batches() {
+    let after = -1
+    for (;;) {
+      const { rows } = await client.query<unknown[]>({
+        text: `select ${ROW_COLUMNS.join(', ')} from calibration_pairs where phase = $1 and brace_id > $2 order by brace_id limit ${BATCH}`,
+        values: [phase, after],
+        rowMode: 'array',
+      })
+      yield rows
+      if (rows.length < BATCH) return
+      after = rows[rows.length - 1]![C.brace_id] as number
+    }
+  }
+  return buildColumns(phase, version, count, projectRows, batches())
+}
+
+/** A full load of `phase` at the current data version (the version read in the same snapshot). */
+export async function loadPhase(db: Db, phase: string): Promise<PhaseData> {
+  return inSnapshot(db, async client => fullLoadIn(client, phase, await readVersionIn(client)))
+}
+
+/**
+ * The projects changed after version `from` up to `to`, from `calibration_changes`; null when the
+ * log cannot say (a full refresh in between, or versions missing: pruned or never logged).
+ */
+async function changedSince(client: pg.PoolClient, from: number, to: number): Promise<number[] | null> {
+  if (to < from) return null
+  const { rows } = await client.query<{ version: string; project_ids: number[] | null }>(
+    'select version::text as version, project_ids from calibration_changes where version > $1 and version <= $2',
+    [from, to],
+  )
+  if (rows.length !== to - from || rows.some(r => r.project_ids === null)) return null
+  return [...new Set(rows.flatMap(r => r.project_ids!))].sort((a, b) => a - b)
+}
+
+/**
+ * `base` with the rows of the `changed` projects replaced by `part` (those projects' rows now),
+ * laid out exactly as a full load would: rows in brace-id order, project indices, dictionary codes
+ * and bases numbered by first appearance in that order.
+ */
+export function mergePhase(base: PhaseData, part: PhaseData, changed: ReadonlySet<number>, version: number): PhaseData {
+  const dropProject = new Uint8Array(base.projects.id.length)
+  base.projects.id.forEach((id, j) => (dropProject[j] = Number(changed.has(id))))
+  let kept = 0
+  for (let i = 0; i < base.n; i++) if (!dropProject[base.project[i]!]) kept++
+  const n = kept + part.n
+  const sources = [base, part]
+  const braceId = new Int32Array(n)
+  const project = new Int32Array(n)
+  const finalCoreArea = new Float64Array(n)
+  const yearDesigned = new Float64Array(n)
+  const yearCompleted = new Float64Array(n)
+  const projects = emptyProjects()
+  const projectMap = sources.map(s => new Int32Array(s.projects.id.length).fill(-1))
+  const dicts = (['frameLine', 'level', 'configuration'] as const).map(name => ({
+    name,
+    out: new DictBuilder(n),
+    maps: sources.map(s => new Int32Array(s[name].values.length).fill(-1)),
+  }))
+  const q = Object.fromEntries(
+    CALIBRATION_QUANTITIES.map(k => [k, { assumed: new Float64Array(n), final: new Float64Array(n), basis: new Int32Array(n), bases: [] as string[] }]),
+  ) as Record<CalibrationQuantity, QuantityColumns>
+  const bases = CALIBRATION_QUANTITIES.map(k => ({ k, index: new Map<string, number>(), maps: sources.map(s => new Int32Array(s.q[k].bases.length).fill(-1)) }))
+
+  let i = 0 // next row of base
+  let j = 0 // next row of part
+  const skip = () => {
+    while (i < base.n && dropProject[base.project[i]!]) i++
+  }
+  skip()
+  for (let o = 0; o < n; o++) {
+    // The smaller brace id comes first (a brace belongs to one project, so ids never tie).
+    const fromPart = i >= base.n || (j < part.n && part.braceId[j]! < base.braceId[i]!)
+    const si = fromPart ? 1 : 0
+    const s = sources[si]!
+    const r = fromPart ? j++ : i++
+    braceId[o] = s.braceId[r]!
+    const sp = s.project[r]!
+    let pi = projectMap[si]![sp]!
+    if (pi < 0) {
+      pi = projects.id.length
+      projectMap[si]![sp] = pi
+      copyProject(projects, s.projects, sp)
+    }
+    project[o] = pi
+    for (const d of dicts) {
+      const c = s[d.name].codes[r]!
+      let m = d.maps[si]![c]!
+      if (m < 0) d.maps[si]![c] = m = d.out.code(s[d.name].values[c]!)
+      d.out.codes[o] = m
+    }
+    finalCoreArea[o] = s.finalCoreArea[r]!
+    yearDesigned[o] = s.yearDesigned[r]!
+    yearCompleted[o] = s.yearCompleted[r]!
+    for (const b of bases) {
+      const from = s.q[b.k]
+      const to = q[b.k]
+      to.assumed[o] = from.assumed[r]!
+      to.final[o] = from.final[r]!
+      const c = from.basis[r]!
+      if (c < 0) {
+        to.basis[o] = -1
+        continue
+      }
+      let m = b.maps[si]![c]!
+      if (m < 0) {
+        const label = from.bases[c]!
+        m = b.index.get(label) ?? -1
+        if (m < 0) {
+          m = to.bases.length
+          to.bases.push(label)
+          b.index.set(label, m)
+        }
+        b.maps[si]![c] = m
+      }
+      to.basis[o] = m
+    }
+    if (!fromPart) skip()
+  }
+  const dict = (name: 'frameLine' | 'level' | 'configuration'): Dict => {
+    const d = dicts.find(x => x.name === name)!
+    return { codes: d.out.codes, values: d.out.values }
+  }
+  return {
+    version,
+    phase: base.phase,
+    n,
+    braceId,
+    project,
+    projects,
+    frameLine: dict('frameLine'),
+    level: dict('level'),
+    configuration: dict('configuration'),
+    finalCoreArea,
+    yearDesigned,
+    yearCompleted,
+    q,
+  }
+}
+
+export interface LoadReport {
+  phase: string
+  version: number
+  /** 'delta': built from the version before, reading only `projects` changed projects. */
+  kind: 'full' | 'delta' | 'unchanged'
+  projects: number
+  rows: number
+  ms: number
+}
+
+let loadListener: ((r: LoadReport) => void) | null = null
+/** Called after every rebuild of a phase's columns (the production server logs them). */
+export function onPhaseLoad(listener: ((r: LoadReport) => void) | null) {
+  loadListener = listener
+}
+
+/**
+ * The columns of `phase` at the current data version, built from `base` (an earlier version's)
+ * when the change log covers every version since, else in full. One snapshot throughout.
+ */
+export async function reloadPhase(db: Db, phase: string, base: PhaseData | null): Promise<PhaseData> {
+  const t0 = performance.now()
+  let report: Omit<LoadReport, 'ms'> | undefined
+  const data = await inSnapshot(db, async client => {
+    const version = await readVersionIn(client)
+    const changed = base && base.phase === phase ? await changedSince(client, base.version, version) : null
+    if (!base || !changed) {
+      const d = await fullLoadIn(client, phase, version)
+      report = { phase, version, kind: 'full', projects: d.projects.id.length, rows: d.n }
+      return d
+    }
+    if (version === base.version) {
+      report = { phase, version, kind: 'unchanged', projects: 0, rows: base.n }
+      return base
+    }
+    const count = Number((await client.query<{ n: string }>('select count(*)::text as n from calibration_pairs where phase = $1 and project_id = any($2::integer[])', [phase, changed])).rows[0]!.n)
+    const projectRows = await projectRowsIn(client, phase, changed)
+    const { rows } = await client.query<unknown[]>({
+      text: `select ${ROW_COLUMNS.join(', ')} from calibration_pairs where phase = $1 and project_id = any($2::integer[]) order by brace_id`,
+      values: [phase, changed],
+      rowMode: 'array',
+    })
+    const part = await buildColumns(phase, version, count, projectRows, (async function* () {
+      yield rows
+    })())
+    const d = mergePhase(base, part, new Set(changed), version)
+    report = { phase, version, kind: 'delta', projects: changed.length, rows: d.n }
+    return d
+  })
+  loadListener?.({ ...report!, ms: Math.round(performance.now() - t0) })
+  return data
 }
 
 /** Filters of every calibration endpoint, as row indices of a phase's data. */
@@ -267,21 +504,68 @@ async function storeFor(db: Db): Promise<Store> {
   return s
 }
 
+/** The most recent load of each phase, at whatever version: the base of the next one. */
+const lastLoads = new WeakMap<Db, Map<string, Promise<PhaseData>>>()
+/** Phases whose columns have been loaded at least once, per database. */
+const loaded = new WeakMap<Db, Set<string>>()
+
 /**
  * The pairs of `phase` at the current data version, loaded once per version: requests that arrive
- * while it loads wait for the same load (no second load starts).
+ * while it loads wait for the same load (no second load starts). A load after a data change starts
+ * from the previous version's columns (waiting for that load if it is still running) and reads only
+ * the projects that changed, when the change log allows (see reloadPhase).
  */
 export async function phaseData(db: Db, phase: string): Promise<PhaseData> {
   const s = await storeFor(db)
   let p = s.phases.get(phase)
   if (!p) {
-    p = loadPhase(db, phase, s.version)
-    s.phases.set(phase, p)
-    p.catch(() => {
-      if (s.phases.get(phase) === p) s.phases.delete(phase)
-    })
+    let last = lastLoads.get(db)
+    if (!last) lastLoads.set(db, (last = new Map()))
+    const prev = last.get(phase)
+    const load = (async () => reloadPhase(db, phase, prev ? await prev.catch(() => null) : null))()
+    p = load
+    s.phases.set(phase, load)
+    last.set(phase, load)
+    load.then(
+      () => {
+        let set = loaded.get(db)
+        if (!set) loaded.set(db, (set = new Set()))
+        set.add(phase)
+      },
+      () => {
+        if (s.phases.get(phase) === load) s.phases.delete(phase)
+        if (last.get(phase) === load) last.delete(phase)
+      },
+    )
   }
   return p
+}
+
+/** The phase the calibration answers use unless a request names another (CalibrationFilters' default). */
+export const DEFAULT_PHASE = 'sd'
+
+/** Whether the default phase's columns have been loaded (analytics answer without a rebuild from scratch). */
+export function analyticsReady(db: Db): boolean {
+  return loaded.get(db)?.has(DEFAULT_PHASE) ?? false
+}
+
+/** Loads the default phase's columns ahead of the first request; failures are only logged. */
+export async function warmAnalytics(db: Db, log: (message: string) => void = console.error): Promise<void> {
+  try {
+    await phaseData(db, DEFAULT_PHASE)
+  } catch (err) {
+    log(`analytics warm-up failed: ${err instanceof Error ? err.message : String(err)}`)
+  }
+}
+
+/**
+ * What a server does once it listens: logs every rebuild of the columns and loads the default
+ * phase in the background (the warm-up's time is logged; a failure is logged, never thrown).
+ */
+export function startAnalyticsWarmUp(db: Db, log: (message: string) => void = console.log): void {
+  onPhaseLoad(r => log(`analytics: ${r.phase} columns at version ${r.version}: ${r.kind}${r.kind === 'delta' ? ` (${r.projects} projects changed)` : ''}, ${r.rows} rows in ${r.ms} ms`))
+  const t0 = performance.now()
+  void warmAnalytics(db, log).then(() => log(`analytics warm-up finished after ${((performance.now() - t0) / 1000).toFixed(1)} s (ready: ${analyticsReady(db)})`))
 }
 
 /** Rough size of a JSON-like answer: twice its JSON length (strings are UTF-16 in memory). */
