@@ -7,7 +7,13 @@
  * the Arrow-vs-JSON payload size of the points before and after gzip, and the decode times.
  * Not a test: nothing here passes or fails; the goals are printed next to the measured numbers.
  *
- * Options: BENCH_PROJECTS (default 5000), BENCH_REPEAT (warm requests per endpoint, default 100).
+ * It also prints the cold cost per answer (analytics-cold.ts): 50 distinct random filter combinations
+ * per endpoint computed on the loaded pairs without the answer cache, the reference computation
+ * against the app's, median and p95.
+ *
+ * Options: BENCH_PROJECTS (default 5000), BENCH_REPEAT (warm requests per endpoint, default 100),
+ * BENCH_COLD_KEYS (default 50), BENCH_REFERENCE=0 (skip the slow reference timings),
+ * BENCH_COLD_ONLY=1 (stop after the cold table).
  * Uses DATABASE_URL's server when set, otherwise starts a throwaway cluster like `npm test` does.
  */
 import { chmodSync, mkdtempSync, rmSync } from 'node:fs'
@@ -27,12 +33,19 @@ import { expandPaths } from '../../etl/src/paths'
 import { readInputs, runImport } from '../../etl/src/run'
 import { ensureDatabase, startCluster } from '../lib/postgres'
 import { freePort } from '../lib/ports'
+import { getSizingDefaults } from '../../api/src/services/settings'
+import { getCalibrationSettings } from '../../api/src/services/calibration/settings'
+import { phaseData } from '../../api/src/services/calibration/store'
+import type { TonnageByCategory } from '../../shared/calibration'
+import { coldReport } from './analytics-cold'
 import { generate, writeCsv } from './etl'
 import { perturb } from './synthetic'
 
 const PROJECTS = Number(process.env.BENCH_PROJECTS ?? 5000)
 const REPEAT = Number(process.env.BENCH_REPEAT ?? 100)
 const PASSWORD = 'bench-password-bench'
+/** Distinct random queries per endpoint for the cold-cost table. */
+const COLD_KEYS = Number(process.env.BENCH_COLD_KEYS ?? 50)
 
 
 async function freshDb(adminUrl: string, name: string): Promise<string> {
@@ -89,6 +102,27 @@ async function main() {
     t0 = performance.now()
     await agent.get('/api/calibration/summary?quantity=tmax&groupBy=none').expect(200)
     console.log(`first analytics request after a data change (reads the sd pairs into memory, then answers): ${ms(performance.now() - t0)}`)
+
+    // Cold cost per answer on the loaded pairs, many distinct keys, no answer cache (see analytics-cold.ts).
+    {
+      const d = await phaseData(handle.db, 'sd')
+      const { rows: trows } = await handle.pool.query<{ project_id: number; stage: 'preliminary' | 'final'; category: keyof TonnageByCategory; tons: number }>(
+        `select t.project_id, t.stage::text as stage, t.category::text as category, t.tons_short as tons from tonnage t`,
+      )
+      const tonnage = new Map<number, { preliminary: TonnageByCategory; final: TonnageByCategory }>()
+      for (const r of trows) {
+        const e = tonnage.get(r.project_id) ?? tonnage.set(r.project_id, { preliminary: {}, final: {} }).get(r.project_id)!
+        e[r.stage][r.category] = r.tons
+      }
+      const settings = await getCalibrationSettings(handle.db)
+      const tolerance = (await getSizingDefaults(handle.db)).stiffnessTolerance
+      coldReport(d, tonnage, { keys: COLD_KEYS, tolerance, settings, reference: process.env.BENCH_REFERENCE !== '0' })
+      console.log('Goal: a cold answer in a very few ms (≈300 req/s on 2 cores with 50 connections).')
+      if (process.env.BENCH_COLD_ONLY) {
+        mailer.close()
+        return
+      }
+    }
 
     const variants = ['', '&supplier=BS-B', '&yearFrom=2012&yearTo=2018', '&configuration=inverted_v,v', '&sdc=D&codeEdition=341-16', '&coreAreaMin=4&coreAreaMax=8', '&use=office,school&storiesMin=5', '&supplier=BS-A,BS-C&yearFrom=2015']
     const endpoints: [string, (v: string) => string][] = [

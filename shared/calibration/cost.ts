@@ -43,28 +43,32 @@ export function attributableTons(tons: number, conservatism: number): number {
   return conservatism > 1 ? tons * (1 - 1 / conservatism) : 0
 }
 
-/** The steel cost of conservatism per project and in total, and the projects with unconservative braces. */
-export function costOfConservatism(inputs: CostProjectInput[]): CalibrationCost {
-  const projects: CalibrationCost['projects'] = []
-  const unconservative: CalibrationCost['unconservative'] = []
-  for (const p of inputs) {
-    const cmax: number[] = []
-    let unconservativeBraces = 0
-    let worst: { quantity: 'tmax' | 'cmax'; ratio: number } | null = null
-    const n = Math.max(p.tmaxRatios.length, p.cmaxRatios.length)
-    for (let i = 0; i < n; i++) {
-      const t = p.tmaxRatios[i] ?? NaN
-      const c = p.cmaxRatios[i] ?? NaN
-      if (Number.isFinite(c)) cmax.push(c)
-      if (t < 1 || c < 1) unconservativeBraces++
-      if (t < 1 && (!worst || t < worst.ratio)) worst = { quantity: 'tmax', ratio: t }
-      if (c < 1 && (!worst || c < worst.ratio)) worst = { quantity: 'cmax', ratio: c }
-    }
-    if (worst) unconservative.push({ code: p.code, name: p.name, braces: unconservativeBraces, worstQuantity: worst.quantity, worstRatio: worst.ratio })
-    if (!cmax.length) continue
-    const conservatism = quantileOfSorted(sortedCopy(cmax), 0.5)
-    const capacity = capacityDesignedTons(p.final)
-    projects.push({
+/** One project's part of the cost of conservatism: its row (null when it has no Cmax ratio) and its unconservative entry (null when none). */
+export interface ProjectCost {
+  project: CalibrationCost['projects'][number] | null
+  unconservative: CalibrationCost['unconservative'][number] | null
+}
+
+/** The part of `costOfConservatism` that depends on one project alone. */
+export function costOfProject(p: CostProjectInput): ProjectCost {
+  const cmax: number[] = []
+  let unconservativeBraces = 0
+  let worst: { quantity: 'tmax' | 'cmax'; ratio: number } | null = null
+  const n = Math.max(p.tmaxRatios.length, p.cmaxRatios.length)
+  for (let i = 0; i < n; i++) {
+    const t = p.tmaxRatios[i] ?? NaN
+    const c = p.cmaxRatios[i] ?? NaN
+    if (Number.isFinite(c)) cmax.push(c)
+    if (t < 1 || c < 1) unconservativeBraces++
+    if (t < 1 && (!worst || t < worst.ratio)) worst = { quantity: 'tmax', ratio: t }
+    if (c < 1 && (!worst || c < worst.ratio)) worst = { quantity: 'cmax', ratio: c }
+  }
+  const unconservative = worst ? { code: p.code, name: p.name, braces: unconservativeBraces, worstQuantity: worst.quantity, worstRatio: worst.ratio } : null
+  if (!cmax.length) return { project: null, unconservative }
+  const conservatism = quantileOfSorted(sortedCopy(cmax), 0.5)
+  const capacity = capacityDesignedTons(p.final)
+  return {
+    project: {
       code: p.code,
       name: p.name,
       yearDesigned: p.yearDesigned,
@@ -74,7 +78,18 @@ export function costOfConservatism(inputs: CostProjectInput[]): CalibrationCost 
       attributableTons: capacity === null ? 0 : attributableTons(capacity, conservatism),
       unconservativeBraces,
       braces: cmax.length,
-    })
+    },
+    unconservative,
+  }
+}
+
+/** The answer from the projects' parts, in project order. */
+export function costTotals(parts: ProjectCost[]): CalibrationCost {
+  const projects: CalibrationCost['projects'] = []
+  const unconservative: CalibrationCost['unconservative'] = []
+  for (const part of parts) {
+    if (part.unconservative) unconservative.push({ ...part.unconservative })
+    if (part.project) projects.push({ ...part.project })
   }
   const finalLateral = projects.reduce((s, p) => s + (p.finalLateralTons ?? 0), 0)
   const attributable = projects.reduce((s, p) => s + p.attributableTons, 0)
@@ -85,4 +100,9 @@ export function costOfConservatism(inputs: CostProjectInput[]): CalibrationCost 
     totals: { projects: projects.length, finalLateralTons: finalLateral, attributableTons: attributable, attributableShare: finalLateral > 0 ? attributable / finalLateral : 0 },
     unconservative,
   }
+}
+
+/** The steel cost of conservatism per project and in total, and the projects with unconservative braces. */
+export function costOfConservatism(inputs: CostProjectInput[]): CalibrationCost {
+  return costTotals(inputs.map(costOfProject))
 }

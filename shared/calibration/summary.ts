@@ -34,7 +34,12 @@ export function histogramBins(min: number, max: number, target = 20): HistogramB
  */
 export function summarizeRatios(ratios: ArrayLike<number>, opts: { group: string; basis: string; tolerance: number; bins: HistogramBins }): RatioSummary {
   if (ratios.length === 0) throw new RangeError('summarizeRatios: ratios must not be empty.')
-  const s = sortedCopy(ratios)
+  return summarizeSortedRatios(sortedCopy(ratios), opts)
+}
+
+/** `summarizeRatios` of ratios already sorted ascending (the same answer, without the sort). */
+export function summarizeSortedRatios(s: ArrayLike<number>, opts: { group: string; basis: string; tolerance: number; bins: HistogramBins }): RatioSummary {
+  if (s.length === 0) throw new RangeError('summarizeRatios: ratios must not be empty.')
   const n = s.length
   const q1 = quantileOfSorted(s, 0.25)
   const median = quantileOfSorted(s, 0.5)

@@ -1,6 +1,6 @@
 import { Dictionary, Float64, Int32, Table, Utf8, makeData, makeVector, tableToIPC, vectorFromArray } from 'apache-arrow'
 import type { CalibrationPoint, CalibrationPoints } from '@shared/schemas/calibration'
-import type { PointRows } from './answers'
+import type { PointRows } from './derived'
 
 /** The points as the JSON answer (CalibrationPoints). */
 export function pointsJson(p: PointRows): CalibrationPoints {
@@ -25,18 +25,20 @@ export function pointsJson(p: PointRows): CalibrationPoints {
   return { quantity: p.quantity, points }
 }
 
-/** Re-codes a column to a compact dictionary of the values these points use. */
-function dictionary(n: number, codeOf: (k: number) => number, valueOf: (code: number) => string) {
-  const remap = new Map<number, number>()
+/**
+ * Re-codes a column to a compact dictionary of the values these points use (numbered in order of
+ * first appearance). `source[k]` is point k's code in the column's own dictionary of `size` values.
+ */
+function dictionary(n: number, size: number, source: Int32Array, valueOf: (code: number) => string) {
+  const remap = new Int32Array(size).fill(-1)
   const values: string[] = []
   const codes = new Int32Array(n)
   for (let k = 0; k < n; k++) {
-    const c = codeOf(k)
-    let m = remap.get(c)
-    if (m === undefined) {
-      m = values.length
+    const c = source[k]!
+    let m = remap[c]!
+    if (m < 0) {
+      m = remap[c] = values.length
       values.push(valueOf(c))
-      remap.set(c, m)
     }
     codes[k] = m
   }
@@ -57,20 +59,28 @@ export function pointsArrow(p: PointRows): Uint8Array {
   const braceId = new Int32Array(n)
   const assumed = new Float64Array(n)
   const final = new Float64Array(n)
+  const project = new Int32Array(n)
+  const frameLine = new Int32Array(n)
+  const level = new Int32Array(n)
+  const basis = new Int32Array(n)
   for (let k = 0; k < n; k++) {
     const r = rows[k]!
     braceId[k] = d.braceId[r]!
     assumed[k] = col.assumed[r]!
     final[k] = col.final[r]!
+    project[k] = d.project[r]!
+    frameLine[k] = d.frameLine.codes[r]!
+    level[k] = d.level.codes[r]!
+    basis[k] = col.basis[r]!
   }
   const table = new Table({
     braceId: makeVector(makeData({ type: new Int32(), length: n, nullCount: 0, data: braceId })),
-    projectCode: dictionary(n, k => d.project[rows[k]!]!, c => d.projects.code[c]!),
-    projectName: dictionary(n, k => d.project[rows[k]!]!, c => d.projects.name[c]!),
-    frameLine: dictionary(n, k => d.frameLine.codes[rows[k]!]!, c => d.frameLine.values[c]!),
-    level: dictionary(n, k => d.level.codes[rows[k]!]!, c => d.level.values[c]!),
-    group: dictionary(n, k => p.group[k]!, c => p.groups[c]!),
-    basis: dictionary(n, k => col.basis[rows[k]!]!, c => col.bases[c]!),
+    projectCode: dictionary(n, d.projects.code.length, project, c => d.projects.code[c]!),
+    projectName: dictionary(n, d.projects.name.length, project, c => d.projects.name[c]!),
+    frameLine: dictionary(n, d.frameLine.values.length, frameLine, c => d.frameLine.values[c]!),
+    level: dictionary(n, d.level.values.length, level, c => d.level.values[c]!),
+    group: dictionary(n, p.groups.length, p.group, c => p.groups[c]!),
+    basis: dictionary(n, col.bases.length, basis, c => col.bases[c]!),
     assumed: makeVector(makeData({ type: new Float64(), length: n, nullCount: 0, data: assumed })),
     final: makeVector(makeData({ type: new Float64(), length: n, nullCount: 0, data: final })),
   })

@@ -3,6 +3,8 @@ import { pairValue, type PairSnapshot } from '@shared/calibration/pairs'
 import type pg from 'pg'
 import type { Db } from '../../db'
 import { calibrationVersion, poolOf } from '../../db/calibration'
+import { prepare } from './derived'
+import { startingIndex } from './starting-index'
 
 /**
  * The calibration pairs of one assumed phase, held in memory as columns (typed arrays and
@@ -549,10 +551,15 @@ export function analyticsReady(db: Db): boolean {
   return loaded.get(db)?.has(DEFAULT_PHASE) ?? false
 }
 
-/** Loads the default phase's columns ahead of the first request; failures are only logged. */
+/**
+ * Loads the default phase's columns, and the structures every answer derives from them, ahead of
+ * the first request; failures are only logged.
+ */
 export async function warmAnalytics(db: Db, log: (message: string) => void = console.error): Promise<void> {
   try {
-    await phaseData(db, DEFAULT_PHASE)
+    const d = await phaseData(db, DEFAULT_PHASE)
+    prepare(d)
+    startingIndex(d)
   } catch (err) {
     log(`analytics warm-up failed: ${err instanceof Error ? err.message : String(err)}`)
   }
