@@ -17,6 +17,7 @@ import { pointsArrow, pointsJson } from '../services/calibration/points'
 import { getCalibrationSettings, saveCalibrationSettings } from '../services/calibration/settings'
 import { cached } from '../services/calibration/store'
 import { toSafeCsv } from '../services/csv-safe'
+import { sendCachedJson } from '../middleware/json-body'
 import type { RouteSpec } from './route-table'
 
 const analysts = ['principal', 'engineer'] as const
@@ -69,7 +70,7 @@ export function calibrationRoutes({ db }: AppDeps): RouteSpec[] {
       handler: async (req, res) => {
         rejectUnknown(req.query as Query, Object.keys(CalibrationFilters.shape))
         CalibrationFilters.parse(req.query)
-        res.json(await calibrationOptions(db))
+        sendCachedJson(req, res, await calibrationOptions(db))
       },
     },
     {
@@ -103,7 +104,7 @@ export function calibrationRoutes({ db }: AppDeps): RouteSpec[] {
       access: analysts,
       handler: async (req, res) => {
         const { filters, own } = parseQuery(req, ['quantity', 'groupBy'], QuantityQuery.extend(GroupQuery.shape))
-        res.json(await calibrationSummary(db, filters, own.quantity, own.groupBy))
+        sendCachedJson(req, res, await calibrationSummary(db, filters, own.quantity, own.groupBy))
       },
     },
     {
@@ -112,7 +113,7 @@ export function calibrationRoutes({ db }: AppDeps): RouteSpec[] {
       access: analysts,
       handler: async (req, res) => {
         const { filters, own } = parseQuery(req, ['quantity'], QuantityQuery)
-        res.json(await calibrationTrend(db, filters, own.quantity))
+        sendCachedJson(req, res, await calibrationTrend(db, filters, own.quantity))
       },
     },
     {
@@ -121,9 +122,8 @@ export function calibrationRoutes({ db }: AppDeps): RouteSpec[] {
       access: analysts,
       handler: async (req, res) => {
         const { filters } = parseQuery(req, [], z.object({}))
-        // A long answer (every project): keep it serialised too; it depends on the data version only.
-        const body = await cached(db, `cost-json|${JSON.stringify(filters)}`, async () => JSON.stringify(await calibrationCost(db, filters)), s => s.length)
-        res.type('application/json').send(body)
+        // A long answer (every project): its JSON and gzip are kept beside the cached answer.
+        sendCachedJson(req, res, await calibrationCost(db, filters))
       },
     },
     {
@@ -132,7 +132,9 @@ export function calibrationRoutes({ db }: AppDeps): RouteSpec[] {
       access: analysts,
       handler: async (req, res) => {
         const { filters, own } = parseQuery(req, ['quantity', 'sort', 'dir', 'limit'], QuantityQuery.extend(MissesQuery.shape))
-        res.json({ quantity: own.quantity, items: await calibrationMisses(db, filters, own.quantity, own) })
+        // The cached list is per quantity, sort and limit, so the body around it is the same for every request sharing it.
+        const items = await calibrationMisses(db, filters, own.quantity, own)
+        sendCachedJson(req, res, items, () => JSON.stringify({ quantity: own.quantity, items }))
       },
     },
     {
@@ -159,7 +161,7 @@ export function calibrationRoutes({ db }: AppDeps): RouteSpec[] {
         rejectUnknown(req.query as Query, Object.keys(StartingFactorsQuery.shape))
         const q = StartingFactorsQuery.parse(req.query)
         checkRanges(q)
-        res.json(await startingFactors(db, q))
+        sendCachedJson(req, res, await startingFactors(db, q))
       },
     },
     {
