@@ -1,17 +1,9 @@
 /** The synthetic history of the benchmarks, varied deterministically so statistics are not degenerate. */
 export type Row = Record<string, string | number>
 
-/** Deterministic pseudo-random numbers in [0, 1) (mulberry32). */
-export function rng(seed: number) {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
+/** Deterministic pseudo-random numbers in [0, 1): the demo firm's mulberry32. */
+import { mulberry32 } from '../demo-firm/random'
+export const rng = mulberry32
 
 export const SUPPLIERS = ['BS-A', 'BS-B', 'BS-C', 'BS-D']
 const EDITIONS: [number, string][] = [[2011, '341-05'], [2017, '341-10'], [2024, '341-16'], [9999, '341-22']]

@@ -3,6 +3,7 @@ import { STARTING_QUANTITIES } from '@shared/schemas/calibration'
 import { backtest, suggestStarting, type FactorColumns } from '@shared/calibration'
 import { backtestIndexed, groupSortedFinals, startingIndex } from '../../api/src/services/calibration/starting-index'
 import type { PhaseData } from '../../api/src/services/calibration/store'
+import { rng } from '../../scripts/bench/synthetic'
 
 // The starting-factor answers worked out on the per-version index (sorted firm rows, Fenwick
 // order statistics for the back-test's growing pools) must equal, value for value, what the
@@ -10,16 +11,6 @@ import type { PhaseData } from '../../api/src/services/calibration/store'
 // rows (their own tests check those against worked examples). Random histories, with ties, missing
 // completion years and a missing design year, exercise the edge cases.
 
-function rng(seed: number) {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
 
 /** A phase's columns: `projects` projects of 1–12 braces, two bases per quantity, finals rounded (ties). */
 function history(seed: number, projects: number, missingDesignYear: boolean): PhaseData {

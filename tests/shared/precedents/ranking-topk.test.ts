@@ -1,21 +1,12 @@
 import { describe, expect, it } from 'vitest'
 import { featureDistance, featureSpreads, rankPrecedents, type PrecedentCandidate } from '@shared/precedents/similarity'
 import { DEFAULT_PRECEDENT_WEIGHTS, PRECEDENT_FEATURES, NUMERIC_FEATURES } from '@shared/schemas/precedents'
+import { rng } from '../../../scripts/bench/synthetic'
 
 // rankPrecedents keeps only the `limit` nearest while scanning; the answer must be the head of the
 // full ranking the method describes (weighted mean of the feature distances, nearest first, ties by
 // code then frame line), worked out here with a plain sort over every candidate.
 
-function rng(seed: number) {
-  let a = seed >>> 0
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0
-    let t = a
-    t = Math.imul(t ^ (t >>> 15), t | 1)
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61)
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296
-  }
-}
 
 const rand = rng(17)
 const pick = <T>(xs: T[]) => xs[Math.floor(rand() * xs.length)]!
