@@ -1,12 +1,13 @@
 /// <reference lib="dom" />
 // page.evaluate() callbacks run in the browser, hence the DOM types.
+import { join } from 'node:path'
 import type { Page } from 'playwright-core'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { runImport } from '../../etl/src/run'
 import { validProject } from '../etl/bundle-builder'
 import { DEMO_PASSWORD } from '../helpers/app'
 import { workbookOf } from '../helpers/history-files'
-import { startHarness, type Harness } from './harness'
+import { ARTIFACTS, startHarness, type Harness } from './harness'
 
 // Keyboard-only use of the main flows (WCAG 2.1 SC 2.1.1 Keyboard, 2.4.7 Focus visible): only Tab, Shift+Tab,
 // typing, arrow keys, Enter and Space; no clicks, no fill(), no focus() calls.
@@ -148,6 +149,7 @@ describe('Keyboard-only use in Chromium', () => {
       return s.outlineStyle !== 'none' && parseFloat(s.outlineWidth) >= 1
     })
     expect(zoneRing, 'the drop zone shows the file picker’s keyboard focus').toBe(true)
+    await page.screenshot({ path: join(ARTIFACTS, 'keyboard-import-focus.png') })
     const [chooser] = await Promise.all([page.waitForEvent('filechooser'), page.keyboard.press('Space')])
     // The operating system's dialog is outside the app: the test hands the chosen file to the browser.
     await chooser.setFiles({ name: 'keyboard-upload.xlsx', mimeType: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet', buffer: await workbookOf(validProject('KBD-002') as Parameters<typeof workbookOf>[0]) })
