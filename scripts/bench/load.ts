@@ -14,8 +14,11 @@
  * BENCH_IMPORT_PROJECTS (projects in the uploaded file, 200; 0 = no import), BENCH_TIMEOUT (s a
  * response may take before it counts as a timeout error, 30), BENCH_KEEP=1 keeps the work folder
  * (server log, upload file), BENCH_CPU_PROF=1 has the server write a V8 CPU profile there (implies
- * BENCH_KEEP). Uses DATABASE_URL's server when set, otherwise starts a
- * throwaway cluster like `npm test` does. Traffic goes to 127.0.0.1 only.
+ * BENCH_KEEP), BENCH_ONLY=summary,precedents drives only those endpoints (names as in the mix),
+ * BENCH_REUSE=1 keeps the seeded database between runs when it still holds exactly the seeded
+ * history (with DATABASE_URL, so the cluster outlives the run; an upload makes the next run seed
+ * again). Uses DATABASE_URL's server when set, otherwise starts a throwaway cluster like `npm test`
+ * does. Traffic goes to 127.0.0.1 only.
  */
 import { spawn, type ChildProcess } from 'node:child_process'
 import { randomBytes } from 'node:crypto'
@@ -44,6 +47,8 @@ const IMPORT_PROJECTS = Number(process.env.BENCH_IMPORT_PROJECTS ?? 200)
 /** Seconds before autocannon gives up on a response (counted as a timeout error). */
 const TIMEOUT = Number(process.env.BENCH_TIMEOUT ?? 30)
 const PASSWORD = 'bench-password-bench'
+const ONLY = process.env.BENCH_ONLY?.split(',').map(k => k.trim()).filter(Boolean)
+const REUSE = process.env.BENCH_REUSE === '1'
 
 
 /**
@@ -57,6 +62,19 @@ function uploadDocument(n: number): string {
   }
   for (const p of t.projects!) p.name = String(p.name).replace('Bench building', 'Uploaded building')
   return JSON.stringify({ format: 'backsight-history', version: 1, units: 'us', ...t })
+}
+
+/** The bench database's project count, or undefined when it does not exist or is not migrated. */
+async function seededProjects(adminUrl: string, name: string): Promise<number | undefined> {
+  const c = new pg.Client({ connectionString: adminUrl.replace(/\/[^/]*$/, `/${name}`) })
+  try {
+    await c.connect()
+    return Number((await c.query<{ n: string }>('select count(*)::text as n from projects')).rows[0]!.n)
+  } catch {
+    return undefined
+  } finally {
+    await c.end().catch(() => {})
+  }
 }
 
 async function freshDb(adminUrl: string, name: string): Promise<string> {
@@ -270,24 +288,30 @@ async function main() {
     await ensureDatabase(adminUrl, 'postgres')
   }
   try {
-    // 1. Seed.
-    console.log(`Generating ${PROJECTS} projects (${PROJECTS * 50} braces), perturbed deterministically…`)
-    writeCsv(join(work, 'csv'), perturb(generate(PROJECTS), 2026))
-    const url = await freshDb(adminUrl, 'bench_load')
+    // 1. Seed (or, with BENCH_REUSE=1, keep a database seeded by an earlier run).
+    const reuse = REUSE && (await seededProjects(adminUrl, 'bench_load')) === PROJECTS
+    const url = reuse ? adminUrl.replace(/\/[^/]*$/, '/bench_load') : await freshDb(adminUrl, 'bench_load')
+    if (reuse) console.log(`Reusing the seeded database bench_load (${PROJECTS} projects).`)
+    else {
+      console.log(`Generating ${PROJECTS} projects (${PROJECTS * 50} braces), perturbed deterministically…`)
+      writeCsv(join(work, 'csv'), perturb(generate(PROJECTS), 2026))
+    }
     {
       const handle = openDb(url)
       try {
         await migrateDb(handle.db)
-        const t0 = performance.now()
-        const summary = await runImport(handle.db, await readInputs(await expandPaths([join(work, 'csv')])), { source: 'cli' })
-        console.log(`ETL into a fresh database: ${((performance.now() - t0) / 1000).toFixed(1)} s, ${summary.loaded} projects loaded`)
-        if (summary.loaded !== PROJECTS) throw new Error(`ETL loaded ${summary.loaded} of ${PROJECTS}: ${summary.problems.slice(0, 3).map(p => p.message).join('; ')}`)
+        if (!reuse) {
+          const t0 = performance.now()
+          const summary = await runImport(handle.db, await readInputs(await expandPaths([join(work, 'csv')])), { source: 'cli' })
+          console.log(`ETL into a fresh database: ${((performance.now() - t0) / 1000).toFixed(1)} s, ${summary.loaded} projects loaded`)
+          if (summary.loaded !== PROJECTS) throw new Error(`ETL loaded ${summary.loaded} of ${PROJECTS}: ${summary.problems.slice(0, 3).map(p => p.message).join('; ')}`)
+        }
         await ensureDemoUsers(handle.db, PASSWORD, { force: true })
       } finally {
         await handle.close()
       }
+      rmSync(join(work, 'csv'), { recursive: true, force: true })
     }
-    rmSync(join(work, 'csv'), { recursive: true, force: true })
     const upload = IMPORT_PROJECTS > 0 ? uploadDocument(IMPORT_PROJECTS) : ''
     if (upload) writeFileSync(join(work, 'upload.json'), upload)
 
@@ -352,7 +376,9 @@ async function main() {
 
     // 5. The load.
     const schedule: Kind[] = []
-    for (const [k, w] of Object.entries(WEIGHTS) as [Kind, number][]) for (let i = 0; i < w; i++) schedule.push(k)
+    const mix = (Object.entries(WEIGHTS) as [Kind, number][]).filter(([k]) => !ONLY || ONLY.includes(k))
+    if (!mix.length) throw new Error(`BENCH_ONLY=${ONLY?.join(',')} names no endpoint of the mix (${Object.keys(WEIGHTS).join(', ')})`)
+    for (const [k, w] of mix) for (let i = 0; i < w; i++) schedule.push(k)
     const shuffle = rng(99)
     for (let i = schedule.length - 1; i > 0; i--) {
       const j = Math.floor(shuffle() * (i + 1))
@@ -437,7 +463,7 @@ async function main() {
     // 6. Report.
     const all = samples.map(s => s.ms)
     const errorsNon2xx = result.non2xx
-    console.log(`\nLoad: ${CONNECTIONS} connections, ${result.duration} s, mix ${Object.entries(WEIGHTS).map(([k, w]) => `${k} ${w}`).join(', ')}`)
+    console.log(`\nLoad: ${CONNECTIONS} connections, ${result.duration} s, mix ${mix.map(([k, w]) => `${k} ${w}`).join(', ')}`)
     console.log(`requests: ${result.requests.total} (${(result.requests.total / runEnd).toFixed(1)} req/s overall; autocannon per-second average ${result.requests.average.toFixed(1)}, min ${result.requests.min}, max ${result.requests.max})`)
     console.log(`latency (all requests, measured per request here): p50 ${ms(pct(all, 0.5))}  p95 ${ms(pct(all, 0.95))}  p99 ${ms(pct(all, 0.99))}  max ${ms(Math.max(...all))}`)
     console.log(`latency (autocannon's histogram):                 p50 ${result.latency.p50} ms  p97.5 ${result.latency.p97_5} ms  p99 ${result.latency.p99} ms  max ${result.latency.max} ms`)
@@ -445,7 +471,7 @@ async function main() {
     for (const [k, n] of [...failures].sort((a, b) => b[1] - a[1]).slice(0, 5)) console.log(`  ${n}× ${k}`)
 
     console.log('\nendpoint                               count    p50         p95         p99         max        non-2xx')
-    const kinds = Object.keys(WEIGHTS) as Kind[]
+    const kinds = mix.map(([k]) => k)
     const byKind = (k: Kind, xs = samples) => xs.filter(s => s.kind === k)
     for (const k of kinds.sort((a, b) => pct(byKind(b).map(s => s.ms), 0.95) - pct(byKind(a).map(s => s.ms), 0.95))) {
       const xs = byKind(k)

@@ -101,9 +101,21 @@ export function isNameable(p: BenchmarkProject, audience: Audience): boolean {
   return audience === 'analyst' || (!p.clientConfidential && p.benchmarkPermitted)
 }
 
+/**
+ * `projectMetrics` remembered per project object and units: a benchmark list is read once per data
+ * version and its objects are never changed, so every request over that list reuses the figures.
+ */
+const metricsMemo = { us: new WeakMap<BenchmarkProject, Record<BenchmarkMetric, number | null>>(), si: new WeakMap<BenchmarkProject, Record<BenchmarkMetric, number | null>>() }
+function metricsOf(p: BenchmarkProject, units: Units): Record<BenchmarkMetric, number | null> {
+  const memo = metricsMemo[units]
+  let m = memo.get(p)
+  if (!m) memo.set(p, (m = projectMetrics(p, units)))
+  return m
+}
+
 /** Percentile bands of every metric over `members`. */
 export function metricBands(members: readonly BenchmarkProject[], units: Units): NonNullable<BenchmarkGroup['metrics']> {
-  const rows = members.map(m => projectMetrics(m, units))
+  const rows = members.map(m => metricsOf(m, units))
   return Object.fromEntries(BENCHMARK_METRICS.map(k => [k, percentileBand(rows.map(r => r[k]))])) as NonNullable<BenchmarkGroup['metrics']>
 }
 
@@ -127,7 +139,9 @@ export function buildGroups(projects: readonly BenchmarkProject[], groupBy: Benc
   const byKey = new Map<string, BenchmarkProject[]>()
   for (const p of projects) {
     const k = groupKeyOf(p, groupBy)
-    byKey.set(k, [...(byKey.get(k) ?? []), p])
+    const members = byKey.get(k)
+    if (members) members.push(p)
+    else byKey.set(k, [p])
   }
   const bandOrder = (k: string) => {
     const i = HEIGHT_BANDS.findIndex(b => b.label === k)
@@ -137,13 +151,23 @@ export function buildGroups(projects: readonly BenchmarkProject[], groupBy: Benc
   return keys.map(k => publishGroup(k, byKey.get(k)!, units, audience))
 }
 
+/** The comparison group of a proposal and its bands: what `proposalFor` gives before the floor area scales it. */
+export interface ProposalGroup {
+  group: { criteria: Record<string, string>; n: number } | null
+  bands: NonNullable<BenchmarkGroup['metrics']> | null
+  widened: string[]
+}
+
+/** What `proposalGroup` depends on: equal keys give the same group (the floor area plays no part). */
+export const proposalGroupKey = (body: ProposalBody): string => JSON.stringify([body.use, heightBandOf(body.stories), body.sdc ?? null, body.region ?? null, body.units])
+
 /**
  * The group a proposal is benchmarked against: the first of these with at least
  * `MIN_PUBLISHED_GROUP` projects having a lateral figure per floor area —
  * use + height band + SDC + region, use + height band + SDC, use + height band, use, height band, all projects
- * (criteria not given in the body are skipped). Then expected tonnage = band × floor area.
+ * (criteria not given in the body are skipped). Depends only on the fields of `proposalGroupKey`.
  */
-export function proposalFor(projects: readonly BenchmarkProject[], body: ProposalBody): Omit<ProposalResponse, 'cautions'> & { widened: string[] } {
+export function proposalGroup(projects: readonly BenchmarkProject[], body: Pick<ProposalBody, 'use' | 'stories' | 'sdc' | 'region' | 'units'>): ProposalGroup {
   const band = heightBandOf(body.stories)!
   const ladder: Record<string, string>[] = []
   const full: Record<string, string> = { use: body.use, heightBand: band }
@@ -156,8 +180,6 @@ export function proposalFor(projects: readonly BenchmarkProject[], body: Proposa
     (c.heightBand === undefined || heightBandOf(p.stories) === c.heightBand) &&
     (c.sdc === undefined || p.sdc === c.sdc) &&
     (c.region === undefined || p.region === c.region)
-  const unitPerArea = body.units === 'si' ? 'kg/m²' : 'lb/ft²'
-  const massPerTon = body.units === 'si' ? KG_PER_TONNE : LB_PER_SHORT_TON
   const widened: string[] = []
   for (const criteria of ladder) {
     const members = projects.filter(p => matches(p, criteria))
@@ -166,19 +188,33 @@ export function proposalFor(projects: readonly BenchmarkProject[], body: Proposa
       widened.push(describeCriteria(criteria))
       continue
     }
-    const expected = (b: Band | null) =>
-      b ? { low: (b.p25 * body.floorArea) / massPerTon, median: (b.p50 * body.floorArea) / massPerTon, high: (b.p75 * body.floorArea) / massPerTon, unit: body.units === 'si' ? 'tonne' : 'ton' } : null
-    return {
-      group: { criteria, n: members.length },
-      lateralPerFloorArea: bands.lateralPerFloorArea,
-      structuralPerFloorArea: bands.structuralPerFloorArea,
-      perFloorAreaUnit: unitPerArea,
-      expectedLateral: expected(bands.lateralPerFloorArea),
-      expectedStructural: expected(bands.structuralPerFloorArea),
-      widened,
-    }
+    return { group: { criteria, n: members.length }, bands, widened }
   }
-  return { group: null, lateralPerFloorArea: null, structuralPerFloorArea: null, perFloorAreaUnit: unitPerArea, expectedLateral: null, expectedStructural: null, widened }
+  return { group: null, bands: null, widened }
+}
+
+/** The benchmark range and expected tonnage of one building over `projects`: `proposalFromGroup` of its `proposalGroup`. */
+export function proposalFor(projects: readonly BenchmarkProject[], body: ProposalBody): Omit<ProposalResponse, 'cautions'> & { widened: string[] } {
+  return proposalFromGroup(body, proposalGroup(projects, body))
+}
+
+/** The range and expected tonnage of one building from its comparison group: expected tonnage = band × floor area. */
+export function proposalFromGroup(body: ProposalBody, group: ProposalGroup): Omit<ProposalResponse, 'cautions'> & { widened: string[] } {
+  const unitPerArea = body.units === 'si' ? 'kg/m²' : 'lb/ft²'
+  const massPerTon = body.units === 'si' ? KG_PER_TONNE : LB_PER_SHORT_TON
+  const { bands, widened } = group
+  if (!group.group || !bands) return { group: null, lateralPerFloorArea: null, structuralPerFloorArea: null, perFloorAreaUnit: unitPerArea, expectedLateral: null, expectedStructural: null, widened: [...widened] }
+  const expected = (b: Band | null) =>
+    b ? { low: (b.p25 * body.floorArea) / massPerTon, median: (b.p50 * body.floorArea) / massPerTon, high: (b.p75 * body.floorArea) / massPerTon, unit: body.units === 'si' ? 'tonne' : 'ton' } : null
+  return {
+    group: { criteria: { ...group.group.criteria }, n: group.group.n },
+    lateralPerFloorArea: bands.lateralPerFloorArea,
+    structuralPerFloorArea: bands.structuralPerFloorArea,
+    perFloorAreaUnit: unitPerArea,
+    expectedLateral: expected(bands.lateralPerFloorArea),
+    expectedStructural: expected(bands.structuralPerFloorArea),
+    widened: [...widened],
+  }
 }
 
 /** 'use office, heightBand 4–7 stories' (or 'all projects'). */

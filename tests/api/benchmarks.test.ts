@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { createTestApp, signedIn, type TestApp } from '../helpers/app'
 import { handProject, loadHandProjects } from '../helpers/hand-history'
 import { BenchmarkResponse, ProposalResponse } from '@shared/schemas/benchmarks'
+import { refreshCalibrationPairs } from '../../api/src/db/calibration'
 
 // Eight invented two-story projects on 40 000 ft², one braced frame line each (first-story shear 300 kip).
 // Office BM-01…BM-06: final lateral steel 20, 30, 40, 50, 60, 70 tons (→ 1.0 … 3.5 lb/ft²), preliminary 40 tons,
@@ -169,5 +170,36 @@ describe('access', () => {
 
   it('keeps engineers out of benchmarks (principal and business development only)', async () => {
     await engineer.agent.get('/api/benchmarks').expect(403)
+  })
+})
+
+// Last in this file: it adds projects.
+describe('kept answers', () => {
+  it('are recomputed once the history changes (an import of three more healthcare projects)', async () => {
+    const before = await principal.agent.get('/api/benchmarks?groupBy=use').expect(200)
+    expect(before.body.groups.find((g: { key: string }) => g.key === 'healthcare').n).toBe(2)
+    const asked = { use: 'healthcare', stories: 2, floorArea: 100_000 }
+    expect((await bd.agent.post('/api/benchmarks/proposal').set('x-csrf-token', bd.csrf).send(asked).expect(200)).body.group.n).toBe(8)
+    // The same question again is answered from what was kept: the same figures.
+    expect((await principal.agent.get('/api/benchmarks?groupBy=use').expect(200)).body).toEqual(before.body)
+
+    const tons = (final: number) => [
+      { stage: 'final', category: 'lateral_total', weight: final },
+      { stage: 'final', category: 'structural_total', weight: 200 },
+    ]
+    await loadHandProjects(
+      t.db.db,
+      [100, 110, 120].map((ton, i) => handProject(`BM-1${i}`, { name: `Clinic ${i + 3}`, client: `Client 02${i}`, client_confidential: 'no', benchmark_permitted: 'yes', building_use: 'healthcare', region: 'Region 1' }, tons(ton))),
+    )
+    // What every import run does after loading (etl/src/run.ts): refresh the pairs, bumping the data version.
+    await refreshCalibrationPairs(t.db.db)
+    const after = await principal.agent.get('/api/benchmarks?groupBy=use').expect(200)
+    const health = after.body.groups.find((g: { key: string }) => g.key === 'healthcare')
+    expect(health.n).toBe(5)
+    // 80 … 120 tons on 40 000 ft² → 4.0, 4.5, 5.0, 5.5, 6.0 lb/ft²: median 5.0
+    expect(health.metrics.lateralPerFloorArea.p50).toBeCloseTo(5.0, 9)
+    const res = await bd.agent.post('/api/benchmarks/proposal').set('x-csrf-token', bd.csrf).send(asked).expect(200)
+    expect(res.body.group).toEqual({ criteria: { use: 'healthcare', heightBand: '1–3 stories' }, n: 5 })
+    expect(res.body.expectedLateral.median).toBeCloseTo(250, 9) // 5.0 lb/ft² × 100 000 ft² / 2000 lb/ton
   })
 })

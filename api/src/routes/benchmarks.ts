@@ -3,6 +3,7 @@ import { BenchmarkQuery, PROPOSAL_EMAILS_PER_HOUR, ProposalBody, ProposalEmailBo
 import type { AppDeps } from '../app'
 import { HttpError } from '../errors'
 import { benchmarks, proposal } from '../services/benchmarks'
+import { sendCachedJson } from '../middleware/json-body'
 import { emailProposal } from '../services/proposal-mail'
 import { proposalFileName, renderProposalPdf } from '../services/proposal-pdf'
 import type { RouteSpec } from './route-table'
@@ -26,7 +27,8 @@ export function benchmarkRoutes({ db, mailer }: AppDeps): RouteSpec[] {
       path: '/api/benchmarks',
       access: benchmarkRoles,
       handler: async (req, res) => {
-        res.json(await benchmarks(db, BenchmarkQuery.parse(req.query), req.user?.role))
+        // Kept per data version: its JSON, gzip and ETag are kept with it.
+        sendCachedJson(req, res, await benchmarks(db, BenchmarkQuery.parse(req.query), req.user?.role))
       },
     },
     {

@@ -1,10 +1,11 @@
 import { and, eq, gte, inArray, lte, notExists, sql, type SQL } from 'drizzle-orm'
 import type { Role } from '@shared/auth/roles'
-import { buildGroups, describeCriteria, proposalFor, type Audience, type BenchmarkProject } from '@shared/benchmarks/groups'
+import { buildGroups, describeCriteria, proposalFromGroup, proposalGroup, proposalGroupKey, type Audience, type BenchmarkProject } from '@shared/benchmarks/groups'
 import { BENCHMARK_METRICS, METRIC_UNITS, MIN_PUBLISHED_GROUP, type BenchmarkQuery, type BenchmarkResponse, type ProposalBody, type ProposalResponse } from '@shared/schemas/benchmarks'
 import type { Db } from '../db'
 import { braces, braceSnapshots, frames, levels, projects, reviewItems, tonnage } from '../db/history-schema'
 import { historyCache } from './history-cache'
+import { cached } from './calibration/store'
 
 /**
  * Steel tonnage benchmarks over the finished projects (drafts and probable duplicates awaiting
@@ -125,10 +126,17 @@ async function queryBenchmarkProjects(db: Db, filters: Filters): Promise<Benchma
   })
 }
 
-/** `GET /api/benchmarks` for a caller of `role`. */
+/**
+ * `GET /api/benchmarks` for a caller of `role`. The answer depends only on the query and the
+ * audience, so it is kept (bounded by size, beside the analytics answers) until the data changes;
+ * callers must not change it.
+ */
 export async function benchmarks(db: Db, query: BenchmarkQuery, role: Role | undefined): Promise<BenchmarkResponse> {
-  const list = await loadBenchmarkProjects(db, query)
   const audience = audienceOf(role)
+  return cached(db, `benchmarks|${audience}|${JSON.stringify(query)}`, async () => benchmarksOf(await loadBenchmarkProjects(db, query), query, audience))
+}
+
+function benchmarksOf(list: BenchmarkProject[], query: BenchmarkQuery, audience: Audience): BenchmarkResponse {
   const cautions = [...BENCHMARK_CAUTIONS]
   if (audience === 'bd') cautions.push(`Groups of fewer than ${MIN_PUBLISHED_GROUP} projects are not published; confidential projects count in the figures but are never named.`)
   return {
@@ -141,9 +149,14 @@ export async function benchmarks(db: Db, query: BenchmarkQuery, role: Role | und
   }
 }
 
-/** `POST /api/benchmarks/proposal`: the benchmark range and expected tonnage for one building. */
+/**
+ * `POST /api/benchmarks/proposal`: the benchmark range and expected tonnage for one building. The
+ * comparison group and its bands depend on the use, height band, SDC, region and units only; they
+ * are kept per data version, and the floor area scales them per request.
+ */
 export async function proposal(db: Db, body: ProposalBody): Promise<ProposalResponse> {
-  const { widened, ...result } = proposalFor(await loadBenchmarkProjects(db), body)
+  const group = await cached(db, `proposal-group|${proposalGroupKey(body)}`, async () => proposalGroup(await loadBenchmarkProjects(db), body))
+  const { widened, ...result } = proposalFromGroup(body, group)
   const cautions = [...BENCHMARK_CAUTIONS]
   if (result.group) {
     cautions.unshift(`Based on ${result.group.n} past projects (${describeCriteria(result.group.criteria)}); the range is their P25–P75.`)

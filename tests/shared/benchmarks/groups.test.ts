@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { buildGroups, lateralTons, projectMetrics, proposalFor, publishGroup, type BenchmarkProject } from '@shared/benchmarks/groups'
+import { buildGroups, lateralTons, projectMetrics, proposalFor, proposalFromGroup, proposalGroup, proposalGroupKey, publishGroup, type BenchmarkProject } from '@shared/benchmarks/groups'
 import { SUPPRESSED_MESSAGE } from '@shared/schemas/benchmarks'
 
 function project(over: Partial<BenchmarkProject> = {}): BenchmarkProject {
@@ -115,6 +115,24 @@ describe('proposalFor', () => {
     const r = proposalFor(office, { use: 'office', stories: 2, floorArea: 10_000, units: 'si' })
     expect(r.expectedLateral!.median).toBeCloseTo((2.25 * 4.882428 * 10_000) / 1000, 3)
     expect(r.perFloorAreaUnit).toBe('kg/m²')
+  })
+
+  it('gives the same answer from a comparison group kept for another building with the same key (only the floor area differs)', () => {
+    const first = { use: 'office', stories: 3, floorArea: 100_000, sdc: 'D', units: 'us' } as const
+    const group = proposalGroup(office, first)
+    // Two stories and three are one height band (1–3 stories): the same group key, another floor area.
+    const second = { use: 'office', stories: 2, floorArea: 37_500, sdc: 'D', units: 'us' } as const
+    expect(proposalGroupKey(second)).toBe(proposalGroupKey(first))
+    expect(proposalFromGroup(second, group)).toEqual(proposalFor(office, second))
+    // 2.25 lb/ft² median (above) × 37 500 ft² / 2000 lb per ton
+    expect(proposalFromGroup(second, group).expectedLateral!.median).toBeCloseTo(42.1875, 10)
+    // A different SDC, band, units or use is another key.
+    for (const other of [{ ...first, sdc: 'C' as const }, { ...first, stories: 4 }, { ...first, units: 'si' as const }, { ...first, use: 'school' as const }]) expect(proposalGroupKey(other)).not.toBe(proposalGroupKey(first))
+    // Callers may change the answer they get without changing the kept group.
+    const answer = proposalFromGroup(second, group)
+    answer.widened.push('changed')
+    answer.group!.criteria.use = 'changed'
+    expect(proposalFromGroup(second, group)).toEqual(proposalFor(office, second))
   })
 
   it('gives no benchmark when even all projects are fewer than five', () => {
