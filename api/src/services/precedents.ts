@@ -1,5 +1,7 @@
-import { and, eq, inArray, sql } from 'drizzle-orm'
-import { rankPrecedents, type PrecedentCandidate, type PrecedentQuery } from '@shared/precedents/similarity'
+import { eq, sql } from 'drizzle-orm'
+import { drizzle } from 'drizzle-orm/node-postgres'
+import type pg from 'pg'
+import { featureSpreads, prepareCandidates, rankPrecedents, type PrecedentCandidate, type PrecedentQuery, type PreparedCandidates } from '@shared/precedents/similarity'
 import { DEFAULT_PRECEDENT_WEIGHTS, type PrecedentMatch, type PrecedentSearchBody, type PrecedentSearchResponse } from '@shared/schemas/precedents'
 import { DESIGN_CAUTIONS } from '@shared/schemas/projects'
 import { lateralTons } from '@shared/benchmarks/groups'
@@ -7,9 +9,9 @@ import { historyCache } from './history-cache'
 import { LB_PER_SHORT_TON } from '@shared/units/constants'
 import { knToKip } from '@shared/units/force'
 import { ftToIn, mToIn } from '@shared/units/length'
-import type { Db } from '../db'
-import { braces, braceSnapshots, frames, levels, projects, suppliers, tonnage } from '../db/history-schema'
-import { featureSpreads } from '@shared/precedents/similarity'
+import { schema, type Db } from '../db'
+import { poolOf } from '../db/calibration'
+import { frames, levels, projects, suppliers } from '../db/history-schema'
 
 /**
  * Precedent finder: every frame line of a finished (non-draft) project is a candidate; its features
@@ -25,9 +27,9 @@ interface Candidate extends PrecedentCandidate {
   yearDesigned: number | null
   floorAreaFt2: number | null
   bays: number
+  /** Levels of the frame. */
+  levelCount: number
 }
-
-const candidateCache = historyCache<{ candidates: Candidate[]; spreads: ReturnType<typeof featureSpreads> }>(1)
 
 export async function loadCandidates(db: Db): Promise<Candidate[]> {
   const rows = await db
@@ -56,7 +58,7 @@ export async function loadCandidates(db: Db): Promise<Candidate[]> {
     .leftJoin(levels, eq(levels.frameId, frames.id))
     .where(eq(projects.draft, false))
     .groupBy(frames.id, projects.id, suppliers.code)
-  return rows.map(({ projectStories, levelCount, ...r }) => ({ ...r, stories: projectStories ?? (levelCount || null) }))
+  return rows.map(({ projectStories, ...r }) => ({ ...r, stories: projectStories ?? (r.levelCount || null) }))
 }
 
 /** The description in stored units (kip, in). */
@@ -77,43 +79,204 @@ export function toStoredQuery(body: PrecedentSearchBody): PrecedentQuery {
   return Object.fromEntries(Object.entries(q).filter(([, v]) => v !== undefined)) as PrecedentQuery
 }
 
+/**
+ * A column of values kept as codes into its distinct values (0 = null, k = `values[k − 1]`): two bytes
+ * a row while a column has at most 65 535 distinct values, four beyond.
+ */
+class CodedColumn<V extends number | string> {
+  codes: Uint16Array | Uint32Array
+  readonly values: V[] = []
+  private index: Map<V | '-0', number> | null = new Map()
+  constructor(rows: number) {
+    this.codes = new Uint16Array(rows)
+  }
+  set(row: number, value: V | null): void {
+    if (value === null) return
+    // A Map key does not tell −0 from 0; −0 gets a code of its own.
+    const key = Object.is(value, -0) ? '-0' : value
+    let code = this.index!.get(key)
+    if (code === undefined) {
+      code = this.values.push(value)
+      this.index!.set(key, code)
+      if (code > 0xffff && this.codes instanceof Uint16Array) this.codes = Uint32Array.from(this.codes)
+    }
+    this.codes[row] = code
+  }
+  get(row: number): V | null {
+    const code = this.codes[row]!
+    return code === 0 ? null : this.values[code - 1]!
+  }
+  /** Done writing: drops the lookup. */
+  seal(): this {
+    this.index = null
+    return this
+  }
+}
+
+/** What a level shows besides its name and index, in the order of the level query's columns. */
+const LEVEL_VALUES = [
+  'storyHeightIn',
+  'storyShearKip',
+  'sdCoreArea',
+  'sdBeta',
+  'sdOmega',
+  'sdStiffness',
+  'finCoreArea',
+  'finBeta',
+  'finOmega',
+  'finStiffness',
+  'finDriftMultiple',
+] as const
+
+/**
+ * The levels of every candidate frame with the values a match shows, in columns (about 27 bytes a
+ * level while values repeat). Levels of candidate i (list order) are rows `start[i]` to
+ * `start[i + 1] − 1`, bottom story first. Per level: the confirmed schematic-design snapshot of its
+ * brace (the lowest revision; `sd*`) and its confirmed governing snapshot (the first by phase, then
+ * revision; `fin*`), as the search used to read them by brace id in index order.
+ */
+export interface FrameLevels extends Record<(typeof LEVEL_VALUES)[number], CodedColumn<number>> {
+  start: Int32Array
+  name: CodedColumn<string>
+  levelIndex: Int16Array
+  /** 1: has a confirmed sd snapshot; 2: has a confirmed governing one. */
+  has: Uint8Array
+}
+
+const LEVELS_SQL = `select l.frame_id, l.name, l.level_index, sd.brace_id is not null, fin.brace_id is not null,
+    l.story_height_in, l.story_shear_kip,
+    sd.core_area_in2, sd.beta, sd.omega, sd.stiffness_factor,
+    fin.core_area_in2, fin.beta, fin.omega, fin.stiffness_factor, fin.factor_drift_multiple
+  from levels l
+  join frames f on f.id = l.frame_id
+  join projects p on p.id = f.project_id and not p.draft
+  left join braces b on b.level_id = l.id
+  left join (select distinct on (brace_id) brace_id, core_area_in2, beta, omega, stiffness_factor
+      from brace_snapshots where confirmed and phase = 'sd' order by brace_id, revision) sd on sd.brace_id = b.id
+  left join (select distinct on (brace_id) brace_id, core_area_in2, beta, omega, stiffness_factor, factor_drift_multiple
+      from brace_snapshots where confirmed and governing order by brace_id, phase, revision) fin on fin.brace_id = b.id
+  order by l.frame_id, l.level_index, l.id`
+const FIRST_VALUE = 5
+
+const LEVEL_BATCH = 5000
+
+/**
+ * Every candidate's levels (see `FrameLevels`), read on `client` inside the transaction that read
+ * `candidates` (their level counts place the rows), through a cursor in batches so that only one
+ * batch of rows is in memory at a time.
+ */
+async function loadFrameLevels(client: pg.PoolClient, candidates: readonly Candidate[], slot: ReadonlyMap<number, number>): Promise<FrameLevels> {
+  const start = new Int32Array(candidates.length + 1)
+  for (let i = 0; i < candidates.length; i++) start[i + 1] = start[i]! + candidates[i]!.levelCount
+  const n = start[candidates.length]!
+  const out: FrameLevels = {
+    start,
+    name: new CodedColumn<string>(n),
+    levelIndex: new Int16Array(n),
+    has: new Uint8Array(n),
+    ...(Object.fromEntries(LEVEL_VALUES.map(k => [k, new CodedColumn<number>(n)])) as Record<(typeof LEVEL_VALUES)[number], CodedColumn<number>>),
+  }
+  const values = LEVEL_VALUES.map(k => out[k])
+  const next = start.slice(0, candidates.length)
+  await client.query(`declare precedent_levels no scroll cursor for ${LEVELS_SQL}`)
+  for (;;) {
+    const { rows } = await client.query<unknown[]>({ text: `fetch ${LEVEL_BATCH} from precedent_levels`, rowMode: 'array' })
+    for (const r of rows) {
+      const i = slot.get(r[0] as number)
+      if (i === undefined || next[i]! >= start[i + 1]!) throw new Error(`precedents: the levels of frame ${String(r[0])} do not match its level count`)
+      const k = next[i]!++
+      out.name.set(k, r[1] as string)
+      out.levelIndex[k] = r[2] as number
+      out.has[k] = (r[3] ? 1 : 0) | (r[4] ? 2 : 0)
+      for (let v = 0; v < values.length; v++) values[v]!.set(k, r[FIRST_VALUE + v] as number | null)
+    }
+    if (rows.length < LEVEL_BATCH) break
+  }
+  await client.query('close precedent_levels')
+  if (next.some((k, i) => k !== start[i + 1])) throw new Error('precedents: fewer levels than the frames count')
+  out.name.seal()
+  for (const c of values) c.seal()
+  return out
+}
+
+/** Final tonnage by category of every project that has some. */
+async function loadFinalTonnage(client: pg.PoolClient): Promise<Map<number, Record<string, number>>> {
+  const { rows } = await client.query<unknown[]>({ text: `select project_id, category::text, tons_short from tonnage where stage = 'final'`, rowMode: 'array' })
+  const byProject = new Map<number, Record<string, number>>()
+  for (const [projectId, category, tons] of rows as [number, string, number][]) {
+    let final = byProject.get(projectId)
+    if (!final) byProject.set(projectId, (final = {}))
+    final[category] = tons
+  }
+  return byProject
+}
+
+interface History {
+  candidates: Candidate[]
+  prepared: PreparedCandidates<Candidate>
+  spreads: ReturnType<typeof featureSpreads>
+  /** Candidate index (list order) by frame id. */
+  slot: Map<number, number>
+  levels: FrameLevels
+  finalTonnage: Map<number, Record<string, number>>
+}
+
+/** Every past frame, its levels and its project's final tonnage, read in one snapshot of the data. */
+async function loadHistory(db: Db): Promise<History> {
+  const client = await poolOf(db).connect()
+  try {
+    await client.query('begin isolation level repeatable read read only')
+    const candidates = await loadCandidates(drizzle(client, { schema }))
+    const slot = new Map(candidates.map((c, i) => [c.frameId, i]))
+    const levels = await loadFrameLevels(client, candidates, slot)
+    const finalTonnage = await loadFinalTonnage(client)
+    await client.query('commit')
+    const prepared = prepareCandidates(candidates)
+    return { candidates, prepared, spreads: prepared.spreads, slot, levels, finalTonnage }
+  } catch (err) {
+    await client.query('rollback').catch(() => {})
+    throw err
+  } finally {
+    client.release()
+  }
+}
+
+// Every past frame and the history's spread of each feature: the same for every search until the data changes.
+const historyEntry = historyCache<History>(1)
+
+/** The levels of candidate `i` as a match shows them. */
+function levelsOf(L: FrameLevels, i: number): PrecedentMatch['levels'] {
+  const out: PrecedentMatch['levels'] = []
+  for (let k = L.start[i]!; k < L.start[i + 1]!; k++) {
+    const sd = L.has[k]! & 1
+    const fin = L.has[k]! & 2
+    out.push({
+      level: L.name.get(k)!,
+      levelIndex: L.levelIndex[k]!,
+      storyHeightIn: L.storyHeightIn.get(k)!,
+      storyShearKip: L.storyShearKip.get(k)!,
+      preliminaryCoreAreaIn2: sd ? L.sdCoreArea.get(k) : null,
+      finalCoreAreaIn2: fin ? L.finCoreArea.get(k) : null,
+      assumed: sd ? { beta: L.sdBeta.get(k), omega: L.sdOmega.get(k), stiffnessFactor: L.sdStiffness.get(k) } : null,
+      final: fin ? { beta: L.finBeta.get(k), omega: L.finOmega.get(k), stiffnessFactor: L.finStiffness.get(k), factorDriftMultiple: L.finDriftMultiple.get(k) } : null,
+    })
+  }
+  return out
+}
+
 /** `POST /api/precedents/search`. */
 export async function searchPrecedents(db: Db, body: PrecedentSearchBody): Promise<PrecedentSearchResponse> {
-  // Every past frame and the history's spread of each feature: the same for every search until the data changes.
-  const { candidates, spreads } = await candidateCache(db, 'all', async () => {
-    const list = await loadCandidates(db)
-    return { candidates: list, spreads: featureSpreads(list) }
-  })
+  const history = await historyEntry(db, 'all', () => loadHistory(db))
+  const { candidates, spreads } = history
   const weights = { ...DEFAULT_PRECEDENT_WEIGHTS, ...body.weights }
-  const ranked = rankPrecedents(toStoredQuery(body), candidates, { weights, spreads, limit: body.limit })
-  const frameIds = ranked.map(r => r.candidate.frameId)
-  const projectIds = [...new Set(ranked.map(r => r.candidate.projectId))]
-
-  const levelRows = frameIds.length
-    ? await db
-        .select({ frameId: levels.frameId, level: levels.name, levelIndex: levels.levelIndex, storyHeightIn: levels.storyHeightIn, storyShearKip: levels.storyShearKip, braceId: braces.id })
-        .from(levels)
-        .leftJoin(braces, eq(braces.levelId, levels.id))
-        .where(inArray(levels.frameId, frameIds))
-        .orderBy(levels.levelIndex)
-    : []
-  const braceIds = levelRows.map(l => l.braceId).filter((id): id is number => id !== null)
-  const snaps = braceIds.length
-    ? await db
-        .select()
-        .from(braceSnapshots)
-        .where(and(inArray(braceSnapshots.braceId, braceIds), eq(braceSnapshots.confirmed, true), sql`(${braceSnapshots.phase} = 'sd' or ${braceSnapshots.governing})`))
-    : []
-  const tons = projectIds.length ? await db.select().from(tonnage).where(and(inArray(tonnage.projectId, projectIds), eq(tonnage.stage, 'final'))) : []
-
+  const ranked = rankPrecedents(toStoredQuery(body), history.prepared, { weights, spreads, limit: body.limit })
   return {
     candidates: candidates.length,
     weights,
     spreads,
     matches: ranked.map((r, i) => {
       const c = r.candidate
-      const final: Record<string, number> = {}
-      for (const t of tons) if (t.projectId === c.projectId) final[t.category] = t.tons
+      const final = history.finalTonnage.get(c.projectId) ?? {}
       const perArea = (t: number | null | undefined) => (t != null && c.floorAreaFt2 ? (t * LB_PER_SHORT_TON) / c.floorAreaFt2 : null)
       return {
         rank: i + 1,
@@ -127,22 +290,7 @@ export async function searchPrecedents(db: Db, body: PrecedentSearchBody): Promi
         similarity: r.similarity,
         distance: r.distance,
         breakdown: r.breakdown,
-        levels: levelRows
-          .filter(l => l.frameId === c.frameId)
-          .map(l => {
-            const sd = snaps.find(s => s.braceId === l.braceId && s.phase === 'sd')
-            const fin = snaps.find(s => s.braceId === l.braceId && s.governing)
-            return {
-              level: l.level,
-              levelIndex: l.levelIndex,
-              storyHeightIn: l.storyHeightIn,
-              storyShearKip: l.storyShearKip,
-              preliminaryCoreAreaIn2: sd?.coreAreaIn2 ?? null,
-              finalCoreAreaIn2: fin?.coreAreaIn2 ?? null,
-              assumed: sd ? { beta: sd.beta, omega: sd.omega, stiffnessFactor: sd.stiffnessFactor } : null,
-              final: fin ? { beta: fin.beta, omega: fin.omega, stiffnessFactor: fin.stiffnessFactor, factorDriftMultiple: fin.factorDriftMultiple } : null,
-            }
-          }),
+        levels: levelsOf(history.levels, history.slot.get(c.frameId)!),
         lateralLbPerFt2: perArea(lateralTons(final)),
         structuralLbPerFt2: perArea(final.structural_total),
       }
