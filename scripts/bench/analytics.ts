@@ -35,9 +35,13 @@ import { ensureDatabase, startCluster } from '../lib/postgres'
 import { freePort } from '../lib/ports'
 import { getSizingDefaults } from '../../api/src/services/settings'
 import { getCalibrationSettings } from '../../api/src/services/calibration/settings'
-import { phaseData } from '../../api/src/services/calibration/store'
+import { phaseData, type PhaseData } from '../../api/src/services/calibration/store'
+import { startingAnswer } from '../../api/src/services/calibration/derived'
+import { previousStarting } from '../../api/src/services/calibration/reference'
+import { dropStartingStats } from '../../api/src/services/calibration/starting-index'
+import { rng } from './synthetic'
 import type { TonnageByCategory } from '../../shared/calibration'
-import { coldReport } from './analytics-cold'
+import { coldReport, randomStartingQuery } from './analytics-cold'
 import { generate, writeCsv } from './etl'
 import { perturb } from './synthetic'
 
@@ -62,6 +66,36 @@ const pct = (xs: number[], p: number) => {
   return s[Math.min(s.length - 1, Math.ceil(p * s.length) - 1)]!
 }
 const ms = (v: number) => `${v.toFixed(1)} ms`
+
+/**
+ * GET /api/starting-factors' computation on the loaded pairs, COLD_KEYS random queries (the load
+ * benchmark's kind): the app's path reading the rows (its kept group stats dropped before each
+ * query), the same filters at another quantile (the kept stats, no rows read), and the code before
+ * the cell layout (reference.ts previousStarting), medians and their ratios.
+ */
+function startingReport(d: PhaseData, settings: { minGroupSize: number; habitYears: number }) {
+  const rand = rng(29)
+  const queries = Array.from({ length: COLD_KEYS }, () => randomStartingQuery(d, rand))
+  startingAnswer(d, queries[0]!, settings)
+  previousStarting(d, queries[0]!, settings)
+  const time = (f: () => unknown) => {
+    const t = performance.now()
+    f()
+    return performance.now() - t
+  }
+  const rows: number[] = []
+  const kept: number[] = []
+  const prev: number[] = []
+  for (const q of queries) {
+    dropStartingStats(d)
+    rows.push(time(() => startingAnswer(d, q, settings)))
+    kept.push(time(() => startingAnswer(d, { ...q, quantile: q.quantile === 0.9 ? 0.95 : 0.9 }, settings)))
+    prev.push(time(() => previousStarting(d, q, settings)))
+  }
+  const [r, k, p] = [pct(rows, 0.5), pct(kept, 0.5), pct(prev, 0.5)]
+  console.log(`\nStarting factors, ${queries.length} random queries (median): before the cell layout ${ms(p)}; rows read ${ms(r)} (${(p / r).toFixed(1)}× faster); same filters, another quantile ${ms(k)} (${(p / k).toFixed(1)}×; ${(r / k).toFixed(1)}× less than reading the rows)`)
+  dropStartingStats(d)
+}
 
 async function main() {
   const work = mkdtempSync(join(tmpdir(), 'backsight-bench-analytics-'))
@@ -117,6 +151,7 @@ async function main() {
       const settings = await getCalibrationSettings(handle.db)
       const tolerance = (await getSizingDefaults(handle.db)).stiffnessTolerance
       coldReport(d, tonnage, { keys: COLD_KEYS, tolerance, settings, reference: process.env.BENCH_REFERENCE !== '0' })
+      startingReport(d, settings)
       console.log('Goal: a cold answer in a very few ms (≈300 req/s on 2 cores with 50 connections).')
       if (process.env.BENCH_COLD_ONLY) {
         mailer.close()

@@ -1,11 +1,12 @@
 import { tableFromIPC } from 'apache-arrow'
 import { describe, expect, it } from 'vitest'
-import { CALIBRATION_GROUPINGS, CALIBRATION_QUANTITIES, MISS_SORTS } from '@shared/schemas/calibration'
+import { CALIBRATION_GROUPINGS, CALIBRATION_QUANTITIES, MISS_SORTS, STARTING_QUANTITIES } from '@shared/schemas/calibration'
 import type { TonnageByCategory } from '@shared/calibration'
-import { costAnswer, missesAnswer, pointRowsOf, selection, startingAnswer, summaryAnswer, trendAnswer } from '../../api/src/services/calibration/derived'
+import { costAnswer, missesAnswer, pointRowsOf, selection, startingAnswer, summaryAnswer, tables, trendAnswer } from '../../api/src/services/calibration/derived'
+import { dropStartingStats, startingAnswerIndexed } from '../../api/src/services/calibration/starting-index'
 import { pointsArrow } from '../../api/src/services/calibration/points'
 import { refCost, refMisses, refPointRows, refPointsArrow, refStarting, refSummary, refTrend } from '../../api/src/services/calibration/reference'
-import { selectRows } from '../../api/src/services/calibration/store'
+import { selectRows, type PhaseData } from '../../api/src/services/calibration/store'
 import { randomFilters, randomStartingQuery } from '../../scripts/bench/analytics-cold'
 import { rng } from '../../scripts/bench/synthetic'
 import { syntheticPhase } from '../../scripts/bench/synthetic-phase'
@@ -93,4 +94,78 @@ describe('derived analytics equal the reference computation', () => {
       nonEmpty = { selection: 0, summary: 0, trend: 0, misses: 0, cost: 0 }
     })
   }
+})
+
+/**
+ * The history with every starting quantity on the first one's bases (the same basis code on every
+ * row, as when the bases are code editions), so the app's path reads the quantities together;
+ * values filled in (rounded, so they tie) where a quantity had none. A new object: nothing derived
+ * from the original is shared.
+ */
+function sharedBases(d: PhaseData, seed: number): PhaseData {
+  const rand = rng(seed)
+  const basis = d.q[STARTING_QUANTITIES[0]].basis
+  const q = { ...d.q }
+  for (const quantity of STARTING_QUANTITIES) {
+    const col = d.q[quantity]
+    const assumed = Float64Array.from(col.assumed)
+    const final = Float64Array.from(col.final)
+    for (let i = 0; i < d.n; i++) {
+      if (basis[i]! < 0) {
+        assumed[i] = NaN
+        final[i] = NaN
+      } else if (!(final[i]! > 0)) {
+        final[i] = Math.round((1 + rand() * 0.6) * 200) / 200
+        assumed[i] = Math.round((1 + rand() * 0.6) * 200) / 200
+      }
+    }
+    const bases = d.q[STARTING_QUANTITIES[0]].bases.map(b => `${quantity} ${b}`)
+    q[quantity] = { assumed, final, basis: Int32Array.from(basis), bases }
+  }
+  return { ...d, q }
+}
+
+describe('starting factors on the cell layout equal the reference computation', () => {
+  for (const [seed, projects, maxBraces] of HISTORIES.slice(0, 3)) {
+    for (const shared of [false, true]) {
+      it(`history ${seed}${shared ? ', quantities on shared bases' : ''}: several quantiles per filter set, with and without the kept group stats`, () => {
+        const base = syntheticPhase(seed, projects, maxBraces)
+        const d = shared ? sharedBases(base, seed + 7) : base
+        const rand = rng(seed * 17 + 3)
+        const pick = <T>(xs: readonly T[]) => xs[Math.floor(rand() * xs.length)]!
+        let years = 0
+        for (let trial = 0; trial < 25; trial++) {
+          const sq = trial === 0 ? { quantile: 0.9, supplier: 'no such supplier' } : randomStartingQuery(d, rand)
+          const settings = { minGroupSize: pick([1, 5, 12]), habitYears: pick([1, 3, 5]) }
+          // The first quantile reads the rows; the others reuse the group's kept stats.
+          for (const quantile of [sq.quantile, 0.5, 0.77, 0.99]) {
+            const q = { ...sq, quantile }
+            const got = outcome(() => startingAnswer(d, q, settings))
+            expect(got).toEqual(outcome(() => refStarting(d, q, settings)))
+            if ('backtest' in got) years += Object.values(got.backtest).reduce((a, b) => a + b.length, 0)
+          }
+          // The same answer again after the kept stats are dropped (the rows are read again).
+          dropStartingStats(d)
+          expect(outcome(() => startingAnswer(d, sq, settings))).toEqual(outcome(() => refStarting(d, sq, settings)))
+        }
+        // Back-tests with years were compared, not only empty ones.
+        expect(years).toBeGreaterThan(100)
+      })
+    }
+  }
+
+  it('the empty group falls back to the firm on every basis, as the reference does', () => {
+    const d = syntheticPhase(5, 80, 20)
+    const q = { quantile: 0.9, supplier: 'no such supplier' }
+    const got = startingAnswer(d, q, { minGroupSize: 5, habitYears: 5 })
+    expect(got).toEqual(refStarting(d, q, { minGroupSize: 5, habitYears: 5 }))
+    expect(got.suggestions.length).toBeGreaterThan(STARTING_QUANTITIES.length)
+    expect(got.suggestions.every(s => s.groupValue === null && s.groupSize === 0)).toBe(true)
+  })
+
+  it('refuses a project filter that is not on supplier and year designed (its cells would not be all in or all out)', () => {
+    const d = syntheticPhase(6, 150, 20)
+    expect(() => startingAnswerIndexed(d, tables(d, { use: ['office'] }), 0.9, { minGroupSize: 5, habitYears: 5 })).toThrow(/supplier and year designed/)
+    expect(() => startingAnswerIndexed(d, tables(d, { supplier: ['BS-A'], yearFrom: 2010 }), 0.9, { minGroupSize: 5, habitYears: 5 })).not.toThrow()
+  })
 })

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { STARTING_QUANTITIES } from '@shared/schemas/calibration'
-import { backtest, suggestStarting, type FactorColumns } from '@shared/calibration'
-import { backtestIndexed, groupSortedFinals, startingIndex } from '../../api/src/services/calibration/starting-index'
+import { backtest, quantileOfSorted, suggestStarting, type FactorColumns } from '@shared/calibration'
+import { backtestIndexed, groupSortedFinals, quantileBy, startingIndex } from '../../api/src/services/calibration/starting-index'
 import type { PhaseData } from '../../api/src/services/calibration/store'
 import { rng } from '../../scripts/bench/synthetic'
 
@@ -87,4 +87,29 @@ describe('starting factors on the per-version index', () => {
       expect(compared).toBeGreaterThan(50)
     })
   }
+})
+
+describe('quantileBy', () => {
+  it('equals quantileOfSorted on the whole sorted array, reading only through the accessor', () => {
+    const rand = rng(9)
+    for (let trial = 0; trial < 300; trial++) {
+      const n = 1 + Math.floor(rand() * 40)
+      const sorted = Float64Array.from({ length: n }, () => Math.round(rand() * 50) / 10).sort()
+      const k = Math.floor(rand() * n)
+      for (const p of [0, 1, 0.5, 0.9, rand(), n > 1 ? k / (n - 1) : 0]) {
+        let reads = 0
+        const got = quantileBy(n, p, i => {
+          reads++
+          expect(i).toBeGreaterThanOrEqual(0)
+          expect(i).toBeLessThan(n)
+          return sorted[i]!
+        })
+        expect(got).toBe(quantileOfSorted(sorted, p))
+        expect(reads).toBeLessThanOrEqual(2)
+      }
+    }
+    // An empty sequence and an out-of-range p fail as quantileOfSorted does.
+    expect(() => quantileBy(0, 0.5, () => 0)).toThrow(/at least one/)
+    expect(() => quantileBy(3, 1.5, () => 0)).toThrow(/between 0 and 1/)
+  })
 })

@@ -132,8 +132,9 @@ const LEVEL_VALUES = [
  * The levels of every candidate frame with the values a match shows, in columns (about 27 bytes a
  * level while values repeat). Levels of candidate i (list order) are rows `start[i]` to
  * `start[i + 1] − 1`, bottom story first. Per level: the confirmed schematic-design snapshot of its
- * brace (the lowest revision; `sd*`) and its confirmed governing snapshot (the first by phase, then
- * revision; `fin*`), as the search used to read them by brace id in index order.
+ * brace (`sd*`; of several revisions the lowest) and its confirmed governing snapshot (`fin*`; the
+ * first by phase, then revision) — the first of each in the order the search's per-request query
+ * used to return them (the snapshots' brace, phase, revision index).
  */
 export interface FrameLevels extends Record<(typeof LEVEL_VALUES)[number], CodedColumn<number>> {
   start: Int32Array
@@ -241,7 +242,7 @@ async function loadHistory(db: Db): Promise<History> {
   }
 }
 
-// Every past frame and the history's spread of each feature: the same for every search until the data changes.
+// Every past frame laid out for ranking, its levels and final tonnage: the same for every search until the data changes.
 const historyEntry = historyCache<History>(1)
 
 /** The levels of candidate `i` as a match shows them. */

@@ -13,7 +13,7 @@ import {
   type StartingSuggestion,
 } from '@shared/schemas/calibration'
 import { costOfProject, costTotals, histogramBins, type ProjectCost, quantileOfSorted, summarizeSortedRatios, yearBand, type TonnageByCategory } from '@shared/calibration'
-import { sortByValue, startingAnswerIndexed } from './starting-index'
+import { sortByValue, startingAnswerIndexed, startingLayout } from './starting-index'
 import type { PhaseData } from './store'
 
 /**
@@ -395,6 +395,7 @@ export function prepare(d: PhaseData): void {
   projectsByCode(d)
   projectRowCounts(d)
   selection(d, {})
+  startingLayout(d)
 }
 
 // ————————————————————————————————————————————— answers
@@ -757,7 +758,6 @@ export function startingFilters(query: StartingFactorsQuery): Partial<Calibratio
 
 /** Suggestions and back-tests of a starting-factor query. */
 export function startingAnswer(d: PhaseData, query: StartingFactorsQuery, settings: { minGroupSize: number; habitYears: number }): { suggestions: StartingSuggestion[]; backtest: StartingFactors['backtest'] } {
-  const f = startingFilters(query)
-  return startingAnswerIndexed(d, selection(d, f).rows, tables(d, f), query.quantile, settings)
+  return startingAnswerIndexed(d, tables(d, startingFilters(query)), query.quantile, settings)
 }
 
