@@ -8,7 +8,8 @@ import { DESIGN_CAUTIONS } from '@shared/schemas/projects'
 import { lateralTons } from '@shared/benchmarks/groups'
 import { featureSpreads } from '@shared/precedents/similarity'
 import { LB_PER_SHORT_TON } from '@shared/units/constants'
-import { loadCandidates, toStoredQuery } from '../../api/src/services/precedents'
+import { loadCandidates, onPrecedentLoad, toStoredQuery, type PrecedentLoadReport } from '../../api/src/services/precedents'
+import { refreshCalibrationPairs } from '../../api/src/db/calibration'
 import type { Db } from '../../api/src/db'
 import { braces, braceSnapshots, levels, tonnage } from '../../api/src/db/history-schema'
 import { rng } from '../../scripts/bench/synthetic'
@@ -144,7 +145,8 @@ describe('POST /api/precedents/search answers as the straightforward search did'
   })
   afterAll(async () => h.close())
 
-  it('gives the same answers to 60 varied searches, field for field', async () => {
+  /** `n` random searches, each answered by the API and by the reference; returns the levels compared. */
+  async function compareSearches(n: number): Promise<number> {
     const features: Record<string, readonly (number | string)[]> = {
       storyShear: [150, 300, 420, 1334.47],
       stories: [2, 3, 6],
@@ -156,7 +158,7 @@ describe('POST /api/precedents/search answers as the straightforward search did'
       supplier: ['SUP-A', 'SUP-B', 'SUP-X'],
     }
     let levelsSeen = 0
-    for (let k = 0; k < 60; k++) {
+    for (let k = 0; k < n; k++) {
       const description = Object.fromEntries(Object.entries(features).filter(() => rand() < 0.5).map(([f, vs]) => [f, pick(vs)]))
       if (Object.keys(description).length === 0) description.storyShear = 300
       const raw: Record<string, unknown> = { description, limit: pick([1, 3, 10, 50]), units: pick(['us', 'us', 'si']) }
@@ -167,7 +169,11 @@ describe('POST /api/precedents/search answers as the straightforward search did'
       expect(res.body).toEqual(want)
       levelsSeen += want.matches.reduce((s: number, m: { levels: unknown[] }) => s + m.levels.length, 0)
     }
-    expect(levelsSeen).toBeGreaterThan(200) // the answers carry levels to compare
+    return levelsSeen
+  }
+
+  it('gives the same answers to 60 varied searches, field for field', async () => {
+    expect(await compareSearches(60)).toBeGreaterThan(200) // the answers carry levels to compare
   })
 
   it('leaves the draft out and shows the earliest sd revision, the unconfirmed final value as missing', async () => {
@@ -181,5 +187,50 @@ describe('POST /api/precedents/search answers as the straightforward search did'
     expect(at('PV-05').levels[0].final).toBeNull()
     expect(at('PV-06').lateralLbPerFt2).toBeNull()
     expect(at('PV-03').structuralLbPerFt2).toBeNull()
+  })
+
+  it('after changes, reads only the changed projects again and still answers as the straightforward search', async () => {
+    const loads: PrecedentLoadReport[] = []
+    onPrecedentLoad(r => loads.push(r))
+    try {
+      const idOf = async (code: string) => Number((await h.db.pool.query('select id from projects where code = $1', [code])).rows[0].id)
+      // New projects (one with a frame line B), an edited name and shear, new tonnage, a draft
+      // finished, a project deleted: each change logged with its project, as the writers do.
+      const fresh = ['PV-20', 'PV-21', 'PV-22'].map((code, i) => {
+        const t = handProject(code, { name: `Fresh ${i}`, building_use: 'school', sdc: 'D', stories: 4, floor_area: 61_000, year_designed: 2024, supplier_code: 'SUP-A' })
+        t.levels![0]!.story_shear = 275 + 50 * i
+        if (i === 1) {
+          for (const table of ['levels', 'braces', 'brace_values'] as const) t[table]!.push(...t[table]!.filter(r => r.frame_line === 'A').map(r => ({ ...r, frame_line: 'B' })))
+          t.frames!.push({ ...t.frames![0]!, frame_line: 'B', configuration: 'v' })
+        }
+        return t
+      })
+      await loadHandProjects(h.db.db, fresh)
+      const freshIds = await Promise.all(['PV-20', 'PV-21', 'PV-22'].map(idOf))
+      await refreshCalibrationPairs(h.db.db, freshIds)
+      const [pv02, pv06, pv13, pv01] = await Promise.all(['PV-02', 'PV-06', 'PV-13', 'PV-01'].map(idOf))
+      await h.db.db.execute(sql`update projects set name = 'Varied 2, renamed' where id = ${pv02}`)
+      await h.db.db.execute(sql`update levels set story_shear_kip = 333 where level_index = 1 and frame_id in (select id from frames where project_id = ${pv02})`)
+      await h.db.db.execute(sql`insert into tonnage (project_id, stage, category, tons_short) values (${pv06}, 'final', 'braces', 14.5)`)
+      await h.db.db.execute(sql`update projects set draft = false where id = ${pv13}`)
+      await h.db.db.execute(sql`delete from projects where id = ${pv01}`)
+      await refreshCalibrationPairs(h.db.db, [pv02, pv06, pv13, pv01])
+
+      expect(await compareSearches(40)).toBeGreaterThan(100)
+      expect(loads.map(l => [l.kind, l.projects])).toEqual([['delta', 7]])
+      const res = await user.agent.post('/api/precedents/search').set('x-csrf-token', user.csrf).send({ description: { stories: 4 }, limit: 50 }).expect(200)
+      const codes = res.body.matches.map((m: { code: string }) => m.code)
+      expect(codes).toEqual(expect.arrayContaining(['PV-20', 'PV-21', 'PV-22', 'PV-13']))
+      expect(codes).not.toContain('PV-01')
+      // 18 frames before; PV-01 (one frame) gone, PV-13 (one) finished, PV-20…22 add four.
+      expect(res.body.candidates).toBe(18 - 1 + 1 + 4)
+
+      // A full refresh (nothing logged per project) reads everything again.
+      await refreshCalibrationPairs(h.db.db, null)
+      expect(await compareSearches(10)).toBeGreaterThan(0)
+      expect(loads.map(l => l.kind)).toEqual(['delta', 'full'])
+    } finally {
+      onPrecedentLoad(null)
+    }
   })
 })

@@ -39,3 +39,39 @@ const readVersion = sharedRead(async (pool: pg.Pool): Promise<number> => {
 export function calibrationVersion(db: Db): Promise<number> {
   return readVersion(poolOf(db))
 }
+
+/** A read-only REPEATABLE READ transaction: every query sees one snapshot, so one data version. */
+export async function inSnapshot<T>(db: Db, work: (client: pg.PoolClient) => Promise<T>): Promise<T> {
+  const client = await poolOf(db).connect()
+  try {
+    await client.query('begin isolation level repeatable read read only')
+    const out = await work(client)
+    await client.query('commit')
+    return out
+  } catch (err) {
+    await client.query('rollback').catch(() => {})
+    throw err
+  } finally {
+    client.release()
+  }
+}
+
+/** The data version as `client`'s transaction sees it. */
+export async function readVersionIn(client: pg.PoolClient): Promise<number> {
+  const res = await client.query<{ v: string }>('select version::text as v from calibration_state where id = 1')
+  return Number(res.rows[0]?.v ?? 0)
+}
+
+/**
+ * The projects changed after version `from` up to `to`, from `calibration_changes`; null when the
+ * log cannot say (a full refresh in between, or versions missing: pruned or never logged).
+ */
+export async function changedSince(client: pg.PoolClient, from: number, to: number): Promise<number[] | null> {
+  if (to < from) return null
+  const { rows } = await client.query<{ version: string; project_ids: number[] | null }>(
+    'select version::text as version, project_ids from calibration_changes where version > $1 and version <= $2',
+    [from, to],
+  )
+  if (rows.length !== to - from || rows.some(r => r.project_ids === null)) return null
+  return [...new Set(rows.flatMap(r => r.project_ids!))].sort((a, b) => a - b)
+}

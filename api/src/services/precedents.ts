@@ -1,4 +1,4 @@
-import { eq, sql } from 'drizzle-orm'
+import { and, eq, sql } from 'drizzle-orm'
 import { drizzle } from 'drizzle-orm/node-postgres'
 import type pg from 'pg'
 import { featureSpreads, prepareCandidates, rankPrecedents, type PrecedentCandidate, type PrecedentQuery, type PreparedCandidates } from '@shared/precedents/similarity'
@@ -10,7 +10,7 @@ import { LB_PER_SHORT_TON } from '@shared/units/constants'
 import { knToKip } from '@shared/units/force'
 import { ftToIn, mToIn } from '@shared/units/length'
 import { schema, type Db } from '../db'
-import { poolOf } from '../db/calibration'
+import { changedSince, inSnapshot, readVersionIn } from '../db/calibration'
 import { frames, levels, projects, suppliers } from '../db/history-schema'
 
 /**
@@ -31,7 +31,11 @@ interface Candidate extends PrecedentCandidate {
   levelCount: number
 }
 
-export async function loadCandidates(db: Db): Promise<Candidate[]> {
+/** `{1,2,3}`: integer ids as a PostgreSQL array literal (ids are whole numbers, so nothing to escape). */
+const idArray = (ids: readonly number[]) => `{${ids.map(id => String(Math.trunc(id))).join(',')}}`
+
+/** Every frame of a non-draft project; only those of `projectIds` when given. */
+export async function loadCandidates(db: Db, projectIds?: readonly number[]): Promise<Candidate[]> {
   const rows = await db
     .select({
       frameId: frames.id,
@@ -56,7 +60,7 @@ export async function loadCandidates(db: Db): Promise<Candidate[]> {
     .innerJoin(projects, eq(projects.id, frames.projectId))
     .leftJoin(suppliers, eq(suppliers.id, projects.supplierId))
     .leftJoin(levels, eq(levels.frameId, frames.id))
-    .where(eq(projects.draft, false))
+    .where(projectIds ? and(eq(projects.draft, false), sql`${projects.id} = any(${idArray(projectIds)}::integer[])`) : eq(projects.draft, false))
     .groupBy(frames.id, projects.id, suppliers.code)
   return rows.map(({ projectStories, ...r }) => ({ ...r, stories: projectStories ?? (r.levelCount || null) }))
 }
@@ -144,18 +148,21 @@ export interface FrameLevels extends Record<(typeof LEVEL_VALUES)[number], Coded
   has: Uint8Array
 }
 
-const LEVELS_SQL = `select l.frame_id, l.name, l.level_index, sd.brace_id is not null, fin.brace_id is not null,
+/** Braces of the projects `ids` (a subquery), so the snapshot scans of a partial read stay partial. */
+const bracesOf = (ids: readonly number[]) =>
+  `brace_id in (select b2.id from braces b2 join levels l2 on l2.id = b2.level_id join frames f2 on f2.id = l2.frame_id where f2.project_id = any('${idArray(ids)}'::integer[]))`
+const levelsSql = (projectIds?: readonly number[]) => `select l.frame_id, l.name, l.level_index, sd.brace_id is not null, fin.brace_id is not null,
     l.story_height_in, l.story_shear_kip,
     sd.core_area_in2, sd.beta, sd.omega, sd.stiffness_factor,
     fin.core_area_in2, fin.beta, fin.omega, fin.stiffness_factor, fin.factor_drift_multiple
   from levels l
   join frames f on f.id = l.frame_id
-  join projects p on p.id = f.project_id and not p.draft
+  join projects p on p.id = f.project_id and not p.draft${projectIds ? ` and p.id = any('${idArray(projectIds)}'::integer[])` : ''}
   left join braces b on b.level_id = l.id
   left join (select distinct on (brace_id) brace_id, core_area_in2, beta, omega, stiffness_factor
-      from brace_snapshots where confirmed and phase = 'sd' order by brace_id, revision) sd on sd.brace_id = b.id
+      from brace_snapshots where confirmed and phase = 'sd'${projectIds ? ` and ${bracesOf(projectIds)}` : ''} order by brace_id, revision) sd on sd.brace_id = b.id
   left join (select distinct on (brace_id) brace_id, core_area_in2, beta, omega, stiffness_factor, factor_drift_multiple
-      from brace_snapshots where confirmed and governing order by brace_id, phase, revision) fin on fin.brace_id = b.id
+      from brace_snapshots where confirmed and governing${projectIds ? ` and ${bracesOf(projectIds)}` : ''} order by brace_id, phase, revision) fin on fin.brace_id = b.id
   order by l.frame_id, l.level_index, l.id`
 const FIRST_VALUE = 5
 
@@ -166,20 +173,12 @@ const LEVEL_BATCH = 5000
  * `candidates` (their level counts place the rows), through a cursor in batches so that only one
  * batch of rows is in memory at a time.
  */
-async function loadFrameLevels(client: pg.PoolClient, candidates: readonly Candidate[], slot: ReadonlyMap<number, number>): Promise<FrameLevels> {
-  const start = new Int32Array(candidates.length + 1)
-  for (let i = 0; i < candidates.length; i++) start[i + 1] = start[i]! + candidates[i]!.levelCount
-  const n = start[candidates.length]!
-  const out: FrameLevels = {
-    start,
-    name: new CodedColumn<string>(n),
-    levelIndex: new Int16Array(n),
-    has: new Uint8Array(n),
-    ...(Object.fromEntries(LEVEL_VALUES.map(k => [k, new CodedColumn<number>(n)])) as Record<(typeof LEVEL_VALUES)[number], CodedColumn<number>>),
-  }
+async function loadFrameLevels(client: pg.PoolClient, candidates: readonly Candidate[], slot: ReadonlyMap<number, number>, projectIds?: readonly number[]): Promise<FrameLevels> {
+  const out = emptyLevels(candidates)
+  const { start } = out
   const values = LEVEL_VALUES.map(k => out[k])
   const next = start.slice(0, candidates.length)
-  await client.query(`declare precedent_levels no scroll cursor for ${LEVELS_SQL}`)
+  await client.query(`declare precedent_levels no scroll cursor for ${levelsSql(projectIds)}`)
   for (;;) {
     const { rows } = await client.query<unknown[]>({ text: `fetch ${LEVEL_BATCH} from precedent_levels`, rowMode: 'array' })
     for (const r of rows) {
@@ -195,14 +194,43 @@ async function loadFrameLevels(client: pg.PoolClient, candidates: readonly Candi
   }
   await client.query('close precedent_levels')
   if (next.some((k, i) => k !== start[i + 1])) throw new Error('precedents: fewer levels than the frames count')
-  out.name.seal()
-  for (const c of values) c.seal()
-  return out
+  return sealLevels(out)
+}
+
+/** Level columns for `candidates`, sized by their level counts, every value missing. */
+function emptyLevels(candidates: readonly Candidate[]): FrameLevels {
+  const start = new Int32Array(candidates.length + 1)
+  for (let i = 0; i < candidates.length; i++) start[i + 1] = start[i]! + candidates[i]!.levelCount
+  const n = start[candidates.length]!
+  return {
+    start,
+    name: new CodedColumn<string>(n),
+    levelIndex: new Int16Array(n),
+    has: new Uint8Array(n),
+    ...(Object.fromEntries(LEVEL_VALUES.map(k => [k, new CodedColumn<number>(n)])) as Record<(typeof LEVEL_VALUES)[number], CodedColumn<number>>),
+  }
+}
+
+function sealLevels(L: FrameLevels): FrameLevels {
+  L.name.seal()
+  for (const k of LEVEL_VALUES) L[k].seal()
+  return L
+}
+
+/** Copies candidate `i`'s levels in `from` to rows `at`… of `to`. */
+function copyLevels(from: FrameLevels, i: number, to: FrameLevels, at: number): void {
+  for (let k = from.start[i]!, r = at; k < from.start[i + 1]!; k++, r++) {
+    to.name.set(r, from.name.get(k))
+    to.levelIndex[r] = from.levelIndex[k]!
+    to.has[r] = from.has[k]!
+    for (const v of LEVEL_VALUES) to[v].set(r, from[v].get(k))
+  }
 }
 
 /** Final tonnage by category of every project that has some. */
-async function loadFinalTonnage(client: pg.PoolClient): Promise<Map<number, Record<string, number>>> {
-  const { rows } = await client.query<unknown[]>({ text: `select project_id, category::text, tons_short from tonnage where stage = 'final'`, rowMode: 'array' })
+async function loadFinalTonnage(client: pg.PoolClient, projectIds?: readonly number[]): Promise<Map<number, Record<string, number>>> {
+  const only = projectIds ? ` and project_id = any('${idArray(projectIds)}'::integer[])` : ''
+  const { rows } = await client.query<unknown[]>({ text: `select project_id, category::text, tons_short from tonnage where stage = 'final'${only}`, rowMode: 'array' })
   const byProject = new Map<number, Record<string, number>>()
   for (const [projectId, category, tons] of rows as [number, string, number][]) {
     let final = byProject.get(projectId)
@@ -213,6 +241,8 @@ async function loadFinalTonnage(client: pg.PoolClient): Promise<Map<number, Reco
 }
 
 interface History {
+  /** The data version the history was read at (one snapshot). */
+  version: number
   candidates: Candidate[]
   prepared: PreparedCandidates<Candidate>
   spreads: ReturnType<typeof featureSpreads>
@@ -222,28 +252,90 @@ interface History {
   finalTonnage: Map<number, Record<string, number>>
 }
 
-/** Every past frame, its levels and its project's final tonnage, read in one snapshot of the data. */
-async function loadHistory(db: Db): Promise<History> {
-  const client = await poolOf(db).connect()
-  try {
-    await client.query('begin isolation level repeatable read read only')
-    const candidates = await loadCandidates(drizzle(client, { schema }))
-    const slot = new Map(candidates.map((c, i) => [c.frameId, i]))
-    const levels = await loadFrameLevels(client, candidates, slot)
-    const finalTonnage = await loadFinalTonnage(client)
-    await client.query('commit')
-    const prepared = prepareCandidates(candidates)
-    return { candidates, prepared, spreads: prepared.spreads, slot, levels, finalTonnage }
-  } catch (err) {
-    await client.query('rollback').catch(() => {})
-    throw err
-  } finally {
-    client.release()
-  }
+type HistoryData = Pick<History, 'candidates' | 'levels' | 'finalTonnage'>
+
+/** The frames, levels and final tonnage of every finished project (only of `projectIds` when given), on `client`. */
+async function readHistory(client: pg.PoolClient, projectIds?: readonly number[]): Promise<HistoryData> {
+  const candidates = await loadCandidates(drizzle(client, { schema }), projectIds)
+  const slot = new Map(candidates.map((c, i) => [c.frameId, i]))
+  const levels = await loadFrameLevels(client, candidates, slot, projectIds)
+  const finalTonnage = await loadFinalTonnage(client, projectIds)
+  return { candidates, levels, finalTonnage }
+}
+
+/**
+ * `base` with the frames, levels and tonnage of the `changed` projects replaced by `part` (what
+ * those projects hold now; a project gone or turned draft is simply absent from it). The list
+ * order differs from a full read's, which the ranking does not depend on (ties go by code and
+ * frame line, see prepareCandidates).
+ */
+function mergeHistory(base: HistoryData, part: HistoryData, changed: ReadonlySet<number>): HistoryData {
+  const kept: number[] = []
+  for (let i = 0; i < base.candidates.length; i++) if (!changed.has(base.candidates[i]!.projectId)) kept.push(i)
+  const candidates = [...kept.map(i => base.candidates[i]!), ...part.candidates]
+  const levels = emptyLevels(candidates)
+  kept.forEach((i, j) => copyLevels(base.levels, i, levels, levels.start[j]!))
+  part.candidates.forEach((_, i) => copyLevels(part.levels, i, levels, levels.start[kept.length + i]!))
+  const finalTonnage = new Map(base.finalTonnage)
+  for (const id of changed) finalTonnage.delete(id)
+  for (const [id, t] of part.finalTonnage) finalTonnage.set(id, t)
+  return { candidates, levels: sealLevels(levels), finalTonnage }
+}
+
+export interface PrecedentLoadReport {
+  version: number
+  /** 'delta': the previous history with only the `projects` changed since read again. */
+  kind: 'full' | 'delta' | 'unchanged'
+  projects: number
+  frames: number
+  ms: number
+}
+
+let loadListener: ((r: PrecedentLoadReport) => void) | null = null
+/** Called after every read of the precedent history (the production server logs them). */
+export function onPrecedentLoad(listener: ((r: PrecedentLoadReport) => void) | null): void {
+  loadListener = listener
+}
+
+/**
+ * Every past frame, its levels and its project's final tonnage at the current data version, read
+ * in one snapshot. From `base` (an earlier version's history) only the projects changed since are
+ * read again, when the change log covers every version in between (the rule the analytics
+ * columns follow, see reloadPhase); otherwise everything is.
+ */
+async function loadHistory(db: Db, base: History | undefined): Promise<History> {
+  const t0 = performance.now()
+  let report: Omit<PrecedentLoadReport, 'ms' | 'frames'>
+  const { version, data } = await inSnapshot(db, async client => {
+    const version = await readVersionIn(client)
+    const changed = base ? await changedSince(client, base.version, version) : null
+    if (base && changed && changed.length === 0) {
+      report = { version, kind: 'unchanged', projects: 0 }
+      return { version, data: base as HistoryData }
+    }
+    if (base && changed) {
+      report = { version, kind: 'delta', projects: changed.length }
+      return { version, data: mergeHistory(base, await readHistory(client, changed), new Set(changed)) }
+    }
+    const data = await readHistory(client)
+    report = { version, kind: 'full', projects: new Set(data.candidates.map(c => c.projectId)).size }
+    return { version, data }
+  })
+  const history: History =
+    base && data === base
+      ? { ...base, version }
+      : (() => {
+          const prepared = prepareCandidates(data.candidates)
+          return { version, ...data, prepared, spreads: prepared.spreads, slot: new Map(data.candidates.map((c, i) => [c.frameId, i])) }
+        })()
+  loadListener?.({ ...report!, frames: history.candidates.length, ms: Math.round(performance.now() - t0) })
+  return history
 }
 
 // Every past frame laid out for ranking, its levels and final tonnage: the same for every search until the data changes.
 const historyEntry = historyCache<History>(1)
+/** The latest history read from each database, at whatever version: the base of the next read. */
+const lastHistory = new WeakMap<Db, Promise<History>>()
 
 /** The levels of candidate `i` as a match shows them. */
 function levelsOf(L: FrameLevels, i: number): PrecedentMatch['levels'] {
@@ -265,9 +357,23 @@ function levelsOf(L: FrameLevels, i: number): PrecedentMatch['levels'] {
   return out
 }
 
+/** Every past frame laid out for ranking, read once per data version. */
+const historyOf = (db: Db): Promise<History> =>
+  historyEntry(db, 'all', () => {
+    const prev = lastHistory.get(db)
+    const load = (async () => loadHistory(db, prev ? await prev.catch(() => undefined) : undefined))()
+    lastHistory.set(db, load)
+    return load
+  })
+
+/** Lays out the past frames for ranking ahead of the first search (a server does this once it listens). */
+export async function warmPrecedents(db: Db): Promise<number> {
+  return (await historyOf(db)).candidates.length
+}
+
 /** `POST /api/precedents/search`. */
 export async function searchPrecedents(db: Db, body: PrecedentSearchBody): Promise<PrecedentSearchResponse> {
-  const history = await historyEntry(db, 'all', () => loadHistory(db))
+  const history = await historyOf(db)
   const { candidates, spreads } = history
   const weights = { ...DEFAULT_PRECEDENT_WEIGHTS, ...body.weights }
   const ranked = rankPrecedents(toStoredQuery(body), history.prepared, { weights, spreads, limit: body.limit })

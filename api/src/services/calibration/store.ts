@@ -2,7 +2,7 @@ import { CALIBRATION_QUANTITIES, type CalibrationFilters, type CalibrationQuanti
 import { pairValue, type PairSnapshot } from '@shared/calibration/pairs'
 import type pg from 'pg'
 import type { Db } from '../../db'
-import { calibrationVersion, poolOf } from '../../db/calibration'
+import { calibrationVersion, changedSince, inSnapshot, readVersionIn } from '../../db/calibration'
 import { prepare } from './derived'
 import { startingIndex } from './starting-index'
 
@@ -207,27 +207,6 @@ async function buildColumns(phase: string, version: number, count: number, proje
   }
 }
 
-/** A read-only REPEATABLE READ transaction: every query sees one snapshot, so one data version. */
-async function inSnapshot<T>(db: Db, work: (client: pg.PoolClient) => Promise<T>): Promise<T> {
-  const client = await poolOf(db).connect()
-  try {
-    await client.query('begin isolation level repeatable read read only')
-    const out = await work(client)
-    await client.query('commit')
-    return out
-  } catch (err) {
-    await client.query('rollback').catch(() => {})
-    throw err
-  } finally {
-    client.release()
-  }
-}
-
-async function readVersionIn(client: pg.PoolClient): Promise<number> {
-  const res = await client.query<{ v: string }>('select version::text as v from calibration_state where id = 1')
-  return Number(res.rows[0]?.v ?? 0)
-}
-
 async function projectRowsIn(client: pg.PoolClient, phase: string, ids: number[] | null): Promise<Map<number, ProjectRow>> {
   const { rows } = await client.query<unknown[]>({
     text: `select distinct on (project_id) ${PROJECT_COLUMNS.join(', ')} from calibration_pairs where phase = $1 ${ids ? 'and project_id = any($2::integer[])' : ''} order by project_id`,
@@ -260,20 +239,6 @@ async function fullLoadIn(client: pg.PoolClient, phase: string, version: number)
 /** A full load of `phase` at the current data version (the version read in the same snapshot). */
 export async function loadPhase(db: Db, phase: string): Promise<PhaseData> {
   return inSnapshot(db, async client => fullLoadIn(client, phase, await readVersionIn(client)))
-}
-
-/**
- * The projects changed after version `from` up to `to`, from `calibration_changes`; null when the
- * log cannot say (a full refresh in between, or versions missing: pruned or never logged).
- */
-async function changedSince(client: pg.PoolClient, from: number, to: number): Promise<number[] | null> {
-  if (to < from) return null
-  const { rows } = await client.query<{ version: string; project_ids: number[] | null }>(
-    'select version::text as version, project_ids from calibration_changes where version > $1 and version <= $2',
-    [from, to],
-  )
-  if (rows.length !== to - from || rows.some(r => r.project_ids === null)) return null
-  return [...new Set(rows.flatMap(r => r.project_ids!))].sort((a, b) => a - b)
 }
 
 /**
@@ -563,16 +528,6 @@ export async function warmAnalytics(db: Db, log: (message: string) => void = con
   } catch (err) {
     log(`analytics warm-up failed: ${err instanceof Error ? err.message : String(err)}`)
   }
-}
-
-/**
- * What a server does once it listens: logs every rebuild of the columns and loads the default
- * phase in the background (the warm-up's time is logged; a failure is logged, never thrown).
- */
-export function startAnalyticsWarmUp(db: Db, log: (message: string) => void = console.log): void {
-  onPhaseLoad(r => log(`analytics: ${r.phase} columns at version ${r.version}: ${r.kind}${r.kind === 'delta' ? ` (${r.projects} projects changed)` : ''}, ${r.rows} rows in ${r.ms} ms`))
-  const t0 = performance.now()
-  void warmAnalytics(db, log).then(() => log(`analytics warm-up finished after ${((performance.now() - t0) / 1000).toFixed(1)} s (ready: ${analyticsReady(db)})`))
 }
 
 /** Rough size of a JSON-like answer: twice its JSON length (strings are UTF-16 in memory). */
