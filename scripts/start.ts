@@ -12,7 +12,7 @@ import { createApp } from '../api/src/app'
 import { loadConfig } from '../api/src/config'
 import { migrateDb, openDb } from '../api/src/db'
 import { createMailer } from '../api/src/mail/mailer'
-import { warmAnalytics } from '../api/src/services/calibration/store'
+import { warmUp } from '../api/src/services/warm-up'
 import { DEMO_USERS, ensureDemoUsers } from '../api/src/services/users'
 import { projects } from '../api/src/db/history-schema'
 import { count } from 'drizzle-orm'
@@ -100,8 +100,9 @@ async function main() {
     server.once('listening', ok)
     server.once('error', fail)
   })
-  // Load the analytics columns now rather than at the first request; only a failure is printed.
-  void warmAnalytics(db)
+  // Build the analytics columns, precedent and benchmark lists now rather than at the first request;
+  // only a failure is printed.
+  void warmUp(db)
 
   const url = `http://${config.host}:${config.port}`
   console.log(`

@@ -2,7 +2,7 @@ import { createApp } from './app'
 import { loadConfig } from './config'
 import { migrateDb, openDb } from './db'
 import { createMailer } from './mail/mailer'
-import { startAnalyticsWarmUp } from './services/calibration/store'
+import { startWarmUp } from './services/warm-up'
 
 /** Starts the API (and, in production mode, the built dashboard) on HOST:PORT. */
 async function main() {
@@ -15,8 +15,9 @@ async function main() {
     const addr = server.address()
     const port = typeof addr === 'object' && addr ? addr.port : config.port
     console.log(`Backsight API listening on http://${config.host}:${port}`)
-    // Load the analytics columns now, not at the first request (/api/health says when they are ready).
-    startAnalyticsWarmUp(db)
+    // Build the analytics columns, precedent and benchmark lists now, not at the first request
+    // (/api/health says when the analytics are ready).
+    startWarmUp(db)
   })
   const stop = () => {
     server.close(() => {

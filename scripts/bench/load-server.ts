@@ -9,7 +9,7 @@ import { createApp } from '../../api/src/app'
 import { loadConfig } from '../../api/src/config'
 import { openDb } from '../../api/src/db'
 import { createMailer } from '../../api/src/mail/mailer'
-import { startAnalyticsWarmUp } from '../../api/src/services/calibration/store'
+import { startWarmUp } from '../../api/src/services/warm-up'
 
 async function main() {
   const config = loadConfig(process.env)
@@ -23,8 +23,8 @@ async function main() {
   })
   const addr = server.address()
   console.log(`listening ${typeof addr === 'object' && addr ? addr.port : config.port}`)
-  // As api/src/server.ts does: the analytics columns load in the background; /api/health says when.
-  startAnalyticsWarmUp(db)
+  // As api/src/server.ts does: the warm-up runs in the background; /api/health says when the analytics are ready.
+  startWarmUp(db)
   const stop = () => {
     server.closeAllConnections()
     server.close(() => {

@@ -1,0 +1,52 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { refreshCalibrationPairs } from '../../api/src/db/calibration'
+import { loadBenchmarkProjects } from '../../api/src/services/benchmarks'
+import { analyticsReady } from '../../api/src/services/calibration/store'
+import { searchPrecedents } from '../../api/src/services/precedents'
+import { warmUp } from '../../api/src/services/warm-up'
+import { openDb } from '../../api/src/db'
+import { createTestApp, type TestApp } from '../helpers/app'
+import { handProject, loadHandProjects } from '../helpers/hand-history'
+import { PrecedentSearchBody } from '@shared/schemas/precedents'
+
+// Own file: the precedent and benchmark lists are kept per data version in their modules.
+
+let t: TestApp
+
+beforeAll(async () => {
+  t = await createTestApp()
+  await loadHandProjects(t.db.db, [handProject('WARM-1', { name: 'Warm one' }), handProject('WARM-2', { name: 'Warm two', stories: 3 })])
+  await refreshCalibrationPairs(t.db.db)
+}, 60_000)
+
+afterAll(async () => {
+  await t.close()
+})
+
+describe('server warm-up', () => {
+  it('builds the analytics columns, the precedent list and the benchmark list before the first request', async () => {
+    expect(analyticsReady(t.db.db)).toBe(false)
+    const logged: string[] = []
+    const times = await warmUp(t.db.db, m => logged.push(m))
+    expect(logged).toEqual([])
+    expect(analyticsReady(t.db.db)).toBe(true)
+    for (const ms of Object.values(times)) expect(ms).toBeGreaterThanOrEqual(0)
+
+    // A name changed behind the data version's back (no import, no bump) shows which lists were
+    // built by the warm-up: the kept ones still carry the old name.
+    await t.db.pool.query(`update projects set name = 'Renamed behind the version' where code = 'WARM-1'`)
+    const search = await searchPrecedents(t.db.db, PrecedentSearchBody.parse({ description: { storyShear: 300, stories: 2, configuration: 'inverted_v' }, limit: 5 }))
+    expect(search.candidates).toBe(2)
+    expect(search.matches.map(m => m.name).sort()).toEqual(['Warm one', 'Warm two'])
+    const listed = await loadBenchmarkProjects(t.db.db)
+    expect(listed.map(p => p.name).sort()).toEqual(['Warm one', 'Warm two'])
+  })
+
+  it('logs a failure of each part and does not throw when the database is gone', async () => {
+    const gone = openDb('postgres://postgres@127.0.0.1:1/none', { max: 1 })
+    const logged: string[] = []
+    await warmUp(gone.db, m => logged.push(m))
+    expect(logged.map(m => m.split(':')[0])).toEqual(['analytics warm-up failed', 'precedent warm-up failed', 'benchmark warm-up failed'])
+    await gone.close()
+  }, 30_000)
+})
