@@ -19,6 +19,8 @@ declare module 'autocannon' {
   export interface Options {
     url: string
     connections?: number
+    /** Requests per second per connection (autocannon pauses a connection until the next second). */
+    connectionRate?: number
     duration?: number
     pipelining?: number
     timeout?: number

@@ -3,17 +3,25 @@
  * Seeds the synthetic history of `npm run bench:etl` (default 5,000 projects × 50 brace groups =
  * 250,000 braces), perturbed deterministically like `npm run bench:analytics` so the statistics are
  * not degenerate, through the real ETL into a fresh database; starts the app in production mode as a
- * process of its own; signs in 50 sessions (principal, engineer, business development) and drives
- * the analytics, precedent and benchmark endpoints with autocannon from this process for 60 s, with
- * an upload import (a modest history file through POST /api/imports) half way through. Samples the
- * server's RSS from /proc every second. Prints requests/s, p50/p95/p99 latency overall and per
- * endpoint, errors, and the server's memory at start, peak and end. Not a test: nothing here passes
- * or fails; the goals are printed next to the measured numbers.
+ * process of its own and waits for its warm-up; signs in 50 sessions (principal, engineer, business
+ * development) and drives the analytics, precedent and benchmark endpoints with autocannon from this
+ * process in two phases of 60 s, each with an upload import (a modest history file of new projects
+ * through POST /api/imports) half way through:
+ *   - paced: each session sends one request a second (its next waits for its answer and its turn),
+ *     as people clicking through the screens do; the latency is what a user waits;
+ *   - saturation: each session sends its next request as soon as its answer arrives, so the server
+ *     runs flat out; the requests/s is the ceiling, and the latency mostly the queue in front of it
+ *     (Little's law: 50 sessions ÷ throughput).
+ * Samples the server's RSS from /proc every second. Prints requests/s, p50/p95/p99 latency overall
+ * and per endpoint (with the mean response size on the wire), errors, and the server's memory at
+ * start, peak and end. Not a test: nothing here passes or fails; the goals are printed next to the
+ * measured numbers.
  *
- * Options: BENCH_PROJECTS (default 5000), BENCH_CONNECTIONS (50), BENCH_DURATION (s, 60),
- * BENCH_IMPORT_PROJECTS (projects in the uploaded file, 200; 0 = no import), BENCH_TIMEOUT (s a
+ * Options: BENCH_PROJECTS (default 5000), BENCH_CONNECTIONS (sessions, 50), BENCH_DURATION (s per
+ * phase, 60), BENCH_PHASES (paced,saturation), BENCH_PACE (requests/s per session when paced, 1),
+ * BENCH_IMPORT_PROJECTS (projects in each uploaded file, 200; 0 = no import), BENCH_TIMEOUT (s a
  * response may take before it counts as a timeout error, 30), BENCH_KEEP=1 keeps the work folder
- * (server log, upload file), BENCH_CPU_PROF=1 has the server write a V8 CPU profile there (implies
+ * (server log, upload files), BENCH_CPU_PROF=1 has the server write a V8 CPU profile there (implies
  * BENCH_KEEP), BENCH_ONLY=summary,precedents drives only those endpoints (names as in the mix),
  * BENCH_REUSE=1 keeps the seeded database between runs when it still holds exactly the seeded
  * history (with DATABASE_URL, so the cluster outlives the run; an upload makes the next run seed
@@ -26,7 +34,7 @@ import { chmodSync, createWriteStream, existsSync, mkdtempSync, readFileSync, rm
 import { tmpdir } from 'node:os'
 import { dirname, join, resolve } from 'node:path'
 import { createInterface } from 'node:readline'
-import autocannon, { type Request as CannonRequest } from 'autocannon'
+import autocannon, { type Instance, type Options, type Request as CannonRequest, type Result } from 'autocannon'
 import pg from 'pg'
 import { migrateDb, openDb } from '../../api/src/db'
 import { ensureDemoUsers } from '../../api/src/services/users'
@@ -50,15 +58,30 @@ const PASSWORD = 'bench-password-bench'
 const ONLY = process.env.BENCH_ONLY?.split(',').map(k => k.trim()).filter(Boolean)
 const REUSE = process.env.BENCH_REUSE === '1'
 
+/**
+ * A phase of the run. `pace`: requests per second each session sends (it waits for its answer and
+ * then for its next turn, as a user does between clicks); 0: no pause at all, so the server runs
+ * flat out and the latency mostly measures the queue (Little's law: sessions ÷ throughput).
+ */
+interface Phase {
+  pace: number
+}
+const PACE = Number(process.env.BENCH_PACE ?? 1)
+const PHASES: Phase[] = (process.env.BENCH_PHASES ?? 'paced,saturation').split(',').map(p => {
+  if (p.trim() === 'paced') return { pace: PACE }
+  if (p.trim() === 'saturation') return { pace: 0 }
+  throw new Error(`BENCH_PHASES: "${p}" is neither paced nor saturation`)
+})
+
 
 /**
  * The history file uploaded during the run: `n` new projects (codes and names of their own, so they
  * are neither updates nor probable duplicates of seeded ones) as one JSON document.
  */
-function uploadDocument(n: number): string {
+function uploadDocument(n: number, prefix: string): string {
   const t = perturb(generate(n), 7331)
   for (const rows of Object.values(t)) {
-    for (const r of rows) if (typeof r.project_code === 'string') r.project_code = r.project_code.replace('BENCH-', 'UPLOAD-')
+    for (const r of rows) if (typeof r.project_code === 'string') r.project_code = r.project_code.replace('BENCH-', `${prefix}-`)
   }
   for (const p of t.projects!) p.name = String(p.name).replace('Bench building', 'Uploaded building')
   return JSON.stringify({ format: 'backsight-history', version: 1, units: 'us', ...t })
@@ -93,6 +116,7 @@ const pct = (xs: number[], p: number) => {
 }
 const median = (xs: number[]) => pct(xs, 0.5)
 const ms = (v: number) => (Number.isFinite(v) ? `${v.toFixed(1)} ms` : '—')
+const size = (b: number) => (b >= 1e6 ? `${(b / 1e6).toFixed(2)} MB` : `${(b / 1e3).toFixed(1)} kB`)
 const mb = (kb: number) => (Number.isFinite(kb) ? `${(kb / 1024).toFixed(0)} MB` : '—')
 
 // ── server process ─────────────────────────────────────────────────────────────────────────────
@@ -272,6 +296,208 @@ interface Sample {
   at: number
   ms: number
   status: number
+  /** Bytes of the response on the wire, headers included (compressed when the server gzipped it). */
+  bytes: number
+}
+
+interface RssSample {
+  at: number
+  rss: number
+  hwm: number
+}
+
+interface PhaseContext {
+  base: string
+  analysts: Session[]
+  bizdev: Session[]
+  uploader: Session
+  mix: [Kind, number][]
+  /** The server's RSS, sampled every second from `benchStart` on. */
+  rss: RssSample[]
+  benchStart: number
+}
+
+interface PhaseOutcome {
+  label: string
+  rate: number
+  p50: number
+  p95: number
+  p99: number
+  errors: number
+  rssFirst: number
+  rssLast: number
+}
+
+/** One phase of the load: the mix for DURATION seconds, an upload half way through, and its report. */
+async function runPhase(ctx: PhaseContext, phase: Phase, upload: string): Promise<PhaseOutcome> {
+  const { base, analysts, bizdev, uploader, mix, rss, benchStart } = ctx
+  const label = phase.pace ? `paced (${phase.pace} request/s per session)` : 'saturation (no pause between requests)'
+  console.log(`\n═══ ${label} ═══`)
+  const runStart = performance.now()
+  const phaseAt = (runStart - benchStart) / 1000
+  const schedule: Kind[] = []
+  for (const [k, w] of mix) for (let i = 0; i < w; i++) schedule.push(k)
+  const shuffle = rng(99)
+  for (let i = schedule.length - 1; i > 0; i--) {
+    const j = Math.floor(shuffle() * (i + 1))
+    ;[schedule[i], schedule[j]] = [schedule[j]!, schedule[i]!]
+  }
+  const rand = rng(4242)
+  let seq = 0
+  let nAnalyst = 0
+  let nBiz = 0
+  const samples: Sample[] = []
+  const failures = new Map<string, number>()
+  const requests: CannonRequest[] = [
+    {
+      setupRequest: (req, context) => {
+        const kind = schedule[seq++ % schedule.length]!
+        const b = build(kind, rand)
+        const s = ANALYST_KINDS.has(kind) ? analysts[nAnalyst++ % analysts.length]! : bizdev[nBiz++ % bizdev.length]!
+        const headers: Record<string, string> = { cookie: s.cookie, 'accept-encoding': 'gzip', accept: b.accept ?? 'application/json' }
+        if (b.method !== 'GET') Object.assign(headers, { 'x-csrf-token': s.csrf, 'content-type': 'application/json' })
+        // Built right before it is written (autocannon's request iterator), so t0 is the send time.
+        context.kind = kind
+        context.path = b.path
+        context.t0 = performance.now()
+        return { ...req, method: b.method, path: b.path, headers, body: b.body === undefined ? undefined : JSON.stringify(b.body) }
+      },
+      onResponse: (status, body, context) => {
+        const now = performance.now()
+        samples.push({ kind: context.kind as Kind, at: (now - runStart) / 1000, ms: now - (context.t0 as number), status, bytes: 0 })
+        if (status < 200 || status >= 300) {
+          const key = `${status} ${context.path}: ${body.slice(0, 160)}`
+          failures.set(key, (failures.get(key) ?? 0) + 1)
+        }
+      },
+    },
+  ]
+
+  // The concurrent import: half way through, an engineer uploads a history file.
+  const imp: { uploadedAt?: number; acceptedMs?: number; finishedAt?: number; status?: string; loaded?: number; error?: string } = {}
+  let importDone: Promise<void> = Promise.resolve()
+  const importTimer = upload
+    ? setTimeout(() => {
+        importDone = (async () => {
+          imp.uploadedAt = (performance.now() - runStart) / 1000
+          const form = new FormData()
+          form.append('file', new Blob([upload], { type: 'application/json' }), 'bench-upload.json')
+          const s = performance.now()
+          const res = await fetch(`${base}/api/imports`, { method: 'POST', headers: { cookie: uploader.cookie, 'x-csrf-token': uploader.csrf }, body: form })
+          imp.acceptedMs = performance.now() - s
+          const run = (await res.json()) as { id: number; status: string }
+          if (res.status !== 202) throw new Error(`POST /api/imports → ${res.status} ${JSON.stringify(run)}`)
+          // Poll the run until its loader process is done (bounded: 10 minutes).
+          for (let i = 0; i < 600; i++) {
+            await new Promise(r => setTimeout(r, 1000))
+            const r = await fetch(`${base}/api/imports/${run.id}`, { headers: { cookie: uploader.cookie } })
+            const { run: now } = (await r.json()) as { run: { status: string; loaded: number; error: string | null } }
+            if (now.status === 'finished' || now.status === 'failed') {
+              imp.finishedAt = (performance.now() - runStart) / 1000
+              imp.status = now.error ? `${now.status} (${now.error.slice(0, 200)})` : now.status
+              imp.loaded = now.loaded
+              return
+            }
+          }
+          imp.status = 'still running after 10 minutes'
+        })().catch(err => {
+          imp.error = err instanceof Error ? err.message : String(err)
+        })
+      }, (DURATION * 1000) / 2)
+    : undefined
+
+  console.log(`Driving ${CONNECTIONS} sessions for ${DURATION} s${phase.pace ? `, each sending ${phase.pace} request/s (its next request waits for its answer and for its turn)` : ', each sending its next request as soon as the answer arrives'}${upload ? `, uploading ${IMPORT_PROJECTS} projects (${(upload.length / 1e6).toFixed(1)} MB JSON) at ${DURATION / 2} s` : ''}…`)
+  // Paced: one autocannon instance (one connection, connectionRate) per session, their starts
+  // spread over one pacing interval so the sessions' turns do not all fall on the same instant.
+  // Saturation: one instance with every connection.
+  const drive = (opts: Omit<Options, 'url'>): Instance => {
+    const cannon = autocannon({ url: base, timeout: TIMEOUT, requests, ...opts })
+    // autocannon emits 'response' (with the bytes read) right after onResponse for the same response.
+    cannon.on('response', (_client: unknown, _status: number, resBytes: number) => {
+      const last = samples[samples.length - 1]
+      if (last) last.bytes = resBytes
+    })
+    return cannon
+  }
+  const pace = phase.pace
+  const results = await Promise.all(
+    pace
+      ? Array.from({ length: CONNECTIONS }, (_, i) => {
+          const delay = i / (CONNECTIONS * pace)
+          return new Promise<Result>((ok, fail) => setTimeout(() => drive({ connections: 1, connectionRate: pace, duration: DURATION - delay }).then(ok, fail), 1000 * delay))
+        })
+      : [drive({ connections: CONNECTIONS, duration: DURATION })],
+  )
+  const runEnd = (performance.now() - runStart) / 1000
+  clearTimeout(importTimer)
+  // The import, if still running, is in a loader process of its own; wait for it before the next phase.
+  await importDone
+  const sum = (f: (r: (typeof results)[number]) => number) => results.reduce((a, r) => a + f(r), 0)
+  const result = {
+    duration: Math.max(...results.map(r => r.duration)),
+    non2xx: sum(r => r.non2xx),
+    errors: sum(r => r.errors),
+    timeouts: sum(r => r.timeouts),
+    total: sum(r => r.requests.total),
+    statusCodeStats: results.reduce<Record<string, number>>((acc, r) => {
+      for (const [c, v] of Object.entries(r.statusCodeStats)) acc[c] = (acc[c] ?? 0) + v.count
+      return acc
+    }, {}),
+  }
+
+  // 6. Report.
+  const all = samples.map(s => s.ms)
+  const errorsNon2xx = result.non2xx
+  console.log(`\nLoad: ${CONNECTIONS} sessions, ${result.duration.toFixed(1)} s, mix ${mix.map(([k, w]) => `${k} ${w}`).join(', ')}`)
+  console.log(`requests: ${result.total} (${(result.total / runEnd).toFixed(1)} req/s overall${phase.pace ? `; offered ${(CONNECTIONS * phase.pace).toFixed(0)} req/s at most` : ''})`)
+  console.log(`latency (all requests, measured per request here): p50 ${ms(pct(all, 0.5))}  p95 ${ms(pct(all, 0.95))}  p99 ${ms(pct(all, 0.99))}  max ${ms(Math.max(...all))}`)
+  console.log(`errors: ${errorsNon2xx + result.errors} (non-2xx ${errorsNon2xx}, socket errors ${result.errors - result.timeouts}, timeouts after ${TIMEOUT} s ${result.timeouts}; autocannon counts a timeout as an error); responses slower than 10 s ${all.filter(v => v > 10_000).length}; status codes ${Object.entries(result.statusCodeStats).map(([c, n]) => `${c}×${n}`).join(', ')}`)
+  for (const [k, n] of [...failures].sort((a, b) => b[1] - a[1]).slice(0, 5)) console.log(`  ${n}× ${k}`)
+
+  console.log('\nendpoint                               count    p50         p95         p99         max        non-2xx  mean response')
+  const kinds = mix.map(([k]) => k)
+  const byKind = (k: Kind, xs = samples) => xs.filter(s => s.kind === k)
+  for (const k of kinds.sort((a, b) => pct(byKind(b).map(s => s.ms), 0.95) - pct(byKind(a).map(s => s.ms), 0.95))) {
+    const xs = byKind(k)
+    const t = xs.map(s => s.ms)
+    console.log(
+      `${ENDPOINT[k].padEnd(36)} ${String(xs.length).padStart(7)} ${ms(pct(t, 0.5)).padStart(10)} ${ms(pct(t, 0.95)).padStart(11)} ${ms(pct(t, 0.99)).padStart(11)} ${ms(Math.max(...t)).padStart(11)} ${String(xs.filter(s => s.status < 200 || s.status >= 300).length).padStart(9)} ${size(xs.reduce((a, s) => a + s.bytes, 0) / Math.max(1, xs.length)).padStart(13)}`,
+    )
+  }
+  const slowest = [...samples].sort((a, b) => b.ms - a.ms).slice(0, Math.max(1, Math.floor(samples.length * 0.05)))
+  const tail = kinds.map(k => [k, slowest.filter(s => s.kind === k).length] as const).filter(([, n]) => n > 0).sort((a, b) => b[1] - a[1])
+  console.log(`slowest 5 % of requests (${slowest.length}) by endpoint: ${tail.map(([k, n]) => `${k} ${((100 * n) / slowest.length).toFixed(0)} %`).join(', ')}`)
+
+  if (upload) {
+    const during = samples.filter(s => imp.uploadedAt !== undefined && s.at >= imp.uploadedAt && s.at <= (imp.finishedAt ?? Infinity))
+    const before = samples.filter(s => imp.uploadedAt !== undefined && s.at < imp.uploadedAt)
+    const after = samples.filter(s => imp.finishedAt !== undefined && s.at > imp.finishedAt)
+    const p = (xs: Sample[]) => `${xs.length} requests, p50 ${ms(pct(xs.map(s => s.ms), 0.5))}, p95 ${ms(pct(xs.map(s => s.ms), 0.95))}`
+    console.log(`\nconcurrent import (${IMPORT_PROJECTS} projects, upload at ${imp.uploadedAt?.toFixed(0)} s, 202 after ${ms(imp.acceptedMs ?? NaN)}): ${imp.error ? `failed: ${imp.error}` : `${imp.status}, ${imp.loaded} projects loaded, ${imp.finishedAt !== undefined && imp.uploadedAt !== undefined ? `${(imp.finishedAt - imp.uploadedAt).toFixed(0)} s after the upload (at ${imp.finishedAt.toFixed(0)} s)` : ''}`}`)
+    console.log(`  before the upload: ${p(before)}`)
+    console.log(`  while it ran:      ${p(during)}`)
+    console.log(`  after it finished: ${after.length ? p(after) : '(finished after the load ended)'}`)
+  }
+
+  console.log('\nper 10 s:   req/s    p50         p95         max          server RSS (end of window)')
+  for (let w = 0; w * 10 < runEnd - 0.5; w++) {
+    const to = Math.min((w + 1) * 10, runEnd)
+    const xs = samples.filter(s => s.at >= w * 10 && s.at < to).map(s => s.ms)
+    const r = rss.filter(s => s.at - phaseAt < to).at(-1)
+    console.log(`${`${w * 10}–${to.toFixed(0)} s`.padEnd(10)} ${(xs.length / (to - w * 10)).toFixed(1).padStart(7)} ${ms(pct(xs, 0.5)).padStart(10)} ${ms(pct(xs, 0.95)).padStart(11)} ${ms(xs.length ? Math.max(...xs) : NaN).padStart(11)}   ${mb(r?.rss ?? NaN).padStart(8)}`)
+  }
+
+  const during = rss.filter(s => s.at >= phaseAt && s.at - phaseAt <= runEnd)
+  return {
+    label,
+    rate: result.total / runEnd,
+    p50: pct(all, 0.5),
+    p95: pct(all, 0.95),
+    p99: pct(all, 0.99),
+    errors: errorsNon2xx + result.errors,
+    rssFirst: median(during.filter(s => s.at - phaseAt < 10).map(s => s.rss)),
+    rssLast: median(during.filter(s => s.at - phaseAt >= runEnd - 10).map(s => s.rss)),
+  }
 }
 
 async function main() {
@@ -312,8 +538,9 @@ async function main() {
       }
       rmSync(join(work, 'csv'), { recursive: true, force: true })
     }
-    const upload = IMPORT_PROJECTS > 0 ? uploadDocument(IMPORT_PROJECTS) : ''
-    if (upload) writeFileSync(join(work, 'upload.json'), upload)
+    // One upload per phase, each of projects of its own.
+    const uploads = PHASES.map((_, i) => (IMPORT_PROJECTS > 0 ? uploadDocument(IMPORT_PROJECTS, `UPLOAD${i + 1}`) : ''))
+    uploads.forEach((u, i) => u && writeFileSync(join(work, `upload-${i + 1}.json`), u))
 
     // 2. The server, in production mode, in a process of its own.
     sink = await startMailSink({ port: await freePort(), dir: join(work, 'mail') })
@@ -362,166 +589,60 @@ async function main() {
     const uploader = await signIn(base, 'engineer')
     console.log(`${sessions.length} sessions signed in (${roles.filter(r => r === 'principal').length} principal, ${roles.filter(r => r === 'engineer').length} engineer, ${roles.filter(r => r === 'bd').length} bd) in ${((performance.now() - t0) / 1000).toFixed(1)} s`)
     console.log(`analytics warm-up (server listening → /api/health analytics 'ready', polled every 0.1 s during the sign-ins): ${(await warm).toFixed(1)} s`)
+    // The rest of the warm-up (precedent and benchmark lists) logs a line when done: start after it, as users would after a restart.
+    for (let i = 0; !readFileSync(logFile, 'utf8').includes('warm-up finished'); i++) {
+      if (i > 6000) throw new Error('the server did not log the end of its warm-up within 600 s')
+      await new Promise(r => setTimeout(r, 100))
+    }
+    console.log(`whole warm-up (server log 'warm-up finished'): ${((performance.now() - listeningAt) / 1000).toFixed(1)} s after listening`)
     const analysts = sessions.filter(s => s.role !== 'bd')
     const bizdev = sessions.filter(s => s.role !== 'engineer')
 
-    // 4. RSS sampling, every second, from /proc.
-    const rss: { at: number; rss: number; hwm: number }[] = []
+    // 4. RSS sampling, every second, from /proc, across both phases.
+    const rss: RssSample[] = []
     const start = rssOf(pid)!
-    const runStart = performance.now()
+    const benchStart = performance.now()
     const sampler = setInterval(() => {
       const r = rssOf(pid)
-      if (r) rss.push({ at: (performance.now() - runStart) / 1000, ...r })
+      if (r) rss.push({ at: (performance.now() - benchStart) / 1000, ...r })
     }, 1000)
 
-    // 5. The load.
-    const schedule: Kind[] = []
+    // 5. The load, phase by phase, each with its own upload half way through.
     const mix = (Object.entries(WEIGHTS) as [Kind, number][]).filter(([k]) => !ONLY || ONLY.includes(k))
     if (!mix.length) throw new Error(`BENCH_ONLY=${ONLY?.join(',')} names no endpoint of the mix (${Object.keys(WEIGHTS).join(', ')})`)
-    for (const [k, w] of mix) for (let i = 0; i < w; i++) schedule.push(k)
-    const shuffle = rng(99)
-    for (let i = schedule.length - 1; i > 0; i--) {
-      const j = Math.floor(shuffle() * (i + 1))
-      ;[schedule[i], schedule[j]] = [schedule[j]!, schedule[i]!]
-    }
-    const rand = rng(4242)
-    let seq = 0
-    let nAnalyst = 0
-    let nBiz = 0
-    const samples: Sample[] = []
-    const failures = new Map<string, number>()
-    const requests: CannonRequest[] = [
-      {
-        setupRequest: (req, context) => {
-          const kind = schedule[seq++ % schedule.length]!
-          const b = build(kind, rand)
-          const s = ANALYST_KINDS.has(kind) ? analysts[nAnalyst++ % analysts.length]! : bizdev[nBiz++ % bizdev.length]!
-          const headers: Record<string, string> = { cookie: s.cookie, 'accept-encoding': 'gzip', accept: b.accept ?? 'application/json' }
-          if (b.method !== 'GET') Object.assign(headers, { 'x-csrf-token': s.csrf, 'content-type': 'application/json' })
-          // Built right before it is written (autocannon's request iterator), so t0 is the send time.
-          context.kind = kind
-          context.path = b.path
-          context.t0 = performance.now()
-          return { ...req, method: b.method, path: b.path, headers, body: b.body === undefined ? undefined : JSON.stringify(b.body) }
-        },
-        onResponse: (status, body, context) => {
-          const now = performance.now()
-          samples.push({ kind: context.kind as Kind, at: (now - runStart) / 1000, ms: now - (context.t0 as number), status })
-          if (status < 200 || status >= 300) {
-            const key = `${status} ${context.path}: ${body.slice(0, 160)}`
-            failures.set(key, (failures.get(key) ?? 0) + 1)
-          }
-        },
-      },
-    ]
-
-    // The concurrent import: half way through, an engineer uploads a history file.
-    const imp: { uploadedAt?: number; acceptedMs?: number; finishedAt?: number; status?: string; loaded?: number; error?: string } = {}
-    let importDone: Promise<void> = Promise.resolve()
-    const importTimer = upload
-      ? setTimeout(() => {
-          importDone = (async () => {
-            imp.uploadedAt = (performance.now() - runStart) / 1000
-            const form = new FormData()
-            form.append('file', new Blob([upload], { type: 'application/json' }), 'bench-upload.json')
-            const s = performance.now()
-            const res = await fetch(`${base}/api/imports`, { method: 'POST', headers: { cookie: uploader.cookie, 'x-csrf-token': uploader.csrf }, body: form })
-            imp.acceptedMs = performance.now() - s
-            const run = (await res.json()) as { id: number; status: string }
-            if (res.status !== 202) throw new Error(`POST /api/imports → ${res.status} ${JSON.stringify(run)}`)
-            // Poll the run until its loader process is done (bounded: 10 minutes).
-            for (let i = 0; i < 600; i++) {
-              await new Promise(r => setTimeout(r, 1000))
-              const r = await fetch(`${base}/api/imports/${run.id}`, { headers: { cookie: uploader.cookie } })
-              const { run: now } = (await r.json()) as { run: { status: string; loaded: number; error: string | null } }
-              if (now.status === 'finished' || now.status === 'failed') {
-                imp.finishedAt = (performance.now() - runStart) / 1000
-                imp.status = now.error ? `${now.status} (${now.error.slice(0, 200)})` : now.status
-                imp.loaded = now.loaded
-                return
-              }
-            }
-            imp.status = 'still running after 10 minutes'
-          })().catch(err => {
-            imp.error = err instanceof Error ? err.message : String(err)
-          })
-        }, (DURATION * 1000) / 2)
-      : undefined
-
-    console.log(`Driving ${CONNECTIONS} connections for ${DURATION} s${upload ? `, uploading ${IMPORT_PROJECTS} projects (${(upload.length / 1e6).toFixed(1)} MB JSON) at ${DURATION / 2} s` : ''}…`)
-    const result = await autocannon({ url: base, connections: CONNECTIONS, duration: DURATION, timeout: TIMEOUT, requests })
-    const runEnd = (performance.now() - runStart) / 1000
-    clearTimeout(importTimer)
+    const ctx: PhaseContext = { base, analysts, bizdev, uploader, mix, rss, benchStart }
+    const outcomes: PhaseOutcome[] = []
+    for (const [i, phase] of PHASES.entries()) outcomes.push(await runPhase(ctx, phase, uploads[i]!))
     const atEnd = rssOf(pid)!
-    // Memory 5 s after the load stopped (the server may still be answering requests it had queued;
-    // the import, if still running, is in a loader process of its own).
     await new Promise(r => setTimeout(r, 5000))
     const idle = rssOf(pid)!
     clearInterval(sampler)
-    await importDone
 
-    // 6. Report.
-    const all = samples.map(s => s.ms)
-    const errorsNon2xx = result.non2xx
-    console.log(`\nLoad: ${CONNECTIONS} connections, ${result.duration} s, mix ${mix.map(([k, w]) => `${k} ${w}`).join(', ')}`)
-    console.log(`requests: ${result.requests.total} (${(result.requests.total / runEnd).toFixed(1)} req/s overall; autocannon per-second average ${result.requests.average.toFixed(1)}, min ${result.requests.min}, max ${result.requests.max})`)
-    console.log(`latency (all requests, measured per request here): p50 ${ms(pct(all, 0.5))}  p95 ${ms(pct(all, 0.95))}  p99 ${ms(pct(all, 0.99))}  max ${ms(Math.max(...all))}`)
-    console.log(`latency (autocannon's histogram):                 p50 ${result.latency.p50} ms  p97.5 ${result.latency.p97_5} ms  p99 ${result.latency.p99} ms  max ${result.latency.max} ms`)
-    console.log(`errors: ${errorsNon2xx + result.errors} (non-2xx ${errorsNon2xx}, socket errors ${result.errors - result.timeouts}, timeouts after ${TIMEOUT} s ${result.timeouts}; autocannon counts a timeout as an error); responses slower than 10 s ${all.filter(v => v > 10_000).length}; status codes ${Object.entries(result.statusCodeStats).map(([c, v]) => `${c}×${v.count}`).join(', ')}`)
-    for (const [k, n] of [...failures].sort((a, b) => b[1] - a[1]).slice(0, 5)) console.log(`  ${n}× ${k}`)
-
-    console.log('\nendpoint                               count    p50         p95         p99         max        non-2xx')
-    const kinds = mix.map(([k]) => k)
-    const byKind = (k: Kind, xs = samples) => xs.filter(s => s.kind === k)
-    for (const k of kinds.sort((a, b) => pct(byKind(b).map(s => s.ms), 0.95) - pct(byKind(a).map(s => s.ms), 0.95))) {
-      const xs = byKind(k)
-      const t = xs.map(s => s.ms)
+    // 6. Both phases side by side, and the memory over the whole run.
+    console.log('\n═══ summary ═══')
+    console.log('phase                                           req/s      p50         p95         p99      errors')
+    for (const o of outcomes) console.log(`${o.label.padEnd(44)} ${o.rate.toFixed(1).padStart(8)} ${ms(o.p50).padStart(10)} ${ms(o.p95).padStart(11)} ${ms(o.p99).padStart(11)} ${String(o.errors).padStart(8)}`)
+    const peak = Math.max(...rss.map(x => x.rss), atEnd.rss, idle.rss)
+    console.log(`\nserver RSS (/proc/${pid}/status, ${rss.length} samples over ${((performance.now() - benchStart) / 1000).toFixed(0)} s): start ${mb(start.rss)} (idle, signed in, warm-up done, no answer computed yet); peak ${mb(peak)} (kernel VmHWM ${mb(idle.hwm)}); end of load ${mb(atEnd.rss)}; 5 s after the load stopped ${mb(idle.rss)}`)
+    for (const o of outcomes) console.log(`  ${o.label}: median RSS over its first 10 s ${mb(o.rssFirst)}, over its last 10 s ${mb(o.rssLast)}`)
+    if (outcomes.length > 1) {
+      const first = outcomes[0]!.rssLast
+      const last = outcomes.at(-1)!.rssLast
+      const growth = last - first
       console.log(
-        `${ENDPOINT[k].padEnd(36)} ${String(xs.length).padStart(7)} ${ms(pct(t, 0.5)).padStart(10)} ${ms(pct(t, 0.95)).padStart(11)} ${ms(pct(t, 0.99)).padStart(11)} ${ms(Math.max(...t)).padStart(11)} ${String(xs.filter(s => s.status < 200 || s.status >= 300).length).padStart(9)}`,
+        `  end of the first phase → end of the last: ${growth > 0 ? '+' : ''}${mb(growth)} (${((100 * growth) / first).toFixed(0)} %) — ${Math.abs(growth) <= Math.max(0.1 * first, 32 * 1024) ? 'did not grow beyond noise (≤ 10 % or 32 MB), though each phase\'s import rebuilt the columns and emptied the answer cache' : growth > 0 ? 'GREW between the phases' : 'fell between the phases'}`,
       )
     }
-    const slowest = [...samples].sort((a, b) => b.ms - a.ms).slice(0, Math.max(1, Math.floor(samples.length * 0.05)))
-    const tail = kinds.map(k => [k, slowest.filter(s => s.kind === k).length] as const).filter(([, n]) => n > 0).sort((a, b) => b[1] - a[1])
-    console.log(`slowest 5 % of requests (${slowest.length}) by endpoint: ${tail.map(([k, n]) => `${k} ${((100 * n) / slowest.length).toFixed(0)} %`).join(', ')}`)
-
-    if (upload) {
-      const during = samples.filter(s => imp.uploadedAt !== undefined && s.at >= imp.uploadedAt && s.at <= (imp.finishedAt ?? Infinity))
-      const before = samples.filter(s => imp.uploadedAt !== undefined && s.at < imp.uploadedAt)
-      const after = samples.filter(s => imp.finishedAt !== undefined && s.at > imp.finishedAt)
-      const p = (xs: Sample[]) => `${xs.length} requests, p50 ${ms(pct(xs.map(s => s.ms), 0.5))}, p95 ${ms(pct(xs.map(s => s.ms), 0.95))}`
-      console.log(`\nconcurrent import (${IMPORT_PROJECTS} projects, upload at ${imp.uploadedAt?.toFixed(0)} s, 202 after ${ms(imp.acceptedMs ?? NaN)}): ${imp.error ? `failed: ${imp.error}` : `${imp.status}, ${imp.loaded} projects loaded, ${imp.finishedAt !== undefined && imp.uploadedAt !== undefined ? `${(imp.finishedAt - imp.uploadedAt).toFixed(0)} s after the upload (at ${imp.finishedAt.toFixed(0)} s)` : ''}`}`)
-      console.log(`  before the upload: ${p(before)}`)
-      console.log(`  while it ran:      ${p(during)}`)
-      console.log(`  after it finished: ${after.length ? p(after) : '(finished after the load ended)'}`)
-    }
-
-    console.log('\nper 10 s:   req/s    p50         p95         max          server RSS (end of window)')
-    for (let w = 0; w * 10 < runEnd - 0.5; w++) {
-      const to = Math.min((w + 1) * 10, runEnd)
-      const xs = samples.filter(s => s.at >= w * 10 && s.at < to).map(s => s.ms)
-      const r = rss.filter(s => s.at < to).at(-1)
-      console.log(`${`${w * 10}–${to.toFixed(0)} s`.padEnd(10)} ${(xs.length / (to - w * 10)).toFixed(1).padStart(7)} ${ms(pct(xs, 0.5)).padStart(10)} ${ms(pct(xs, 0.95)).padStart(11)} ${ms(xs.length ? Math.max(...xs) : NaN).padStart(11)}   ${mb(r?.rss ?? NaN).padStart(8)}`)
-    }
-
-    const during = rss.filter(s => s.at <= runEnd)
-    const peak = Math.max(...rss.map(s => s.rss), atEnd.rss, idle.rss)
-    const firstWarm = median(during.filter(s => s.at >= 5 && s.at < 15).map(s => s.rss))
-    const lastWarm = median(during.filter(s => s.at >= runEnd - 10).map(s => s.rss))
-    const growth = lastWarm - firstWarm
-    console.log(`\nserver RSS (/proc/${pid}/status, ${rss.length} samples): start ${mb(start.rss)} (idle, signed in, analytics columns warm, no answer computed yet); peak ${mb(peak)} (kernel VmHWM ${mb(idle.hwm)}); end of load ${mb(atEnd.rss)}; 5 s after the load stopped ${mb(idle.rss)}`)
-    console.log(`  median over 5–15 s ${mb(firstWarm)} → over the last 10 s ${mb(lastWarm)}: ${growth > 0 ? '+' : ''}${mb(growth)} (${((100 * growth) / firstWarm).toFixed(0)} %)`)
-    console.log(
-      `  note: ${Math.abs(growth) <= Math.max(0.1 * firstWarm, 32 * 1024) ? 'memory did not grow over the run beyond noise (≤ 10 % or 32 MB between the first and last windows)' : growth > 0 ? 'memory GREW over the run (first vs last window); the import bumps the data version, so the analytics columns and answer cache are rebuilt once — rerun longer to tell a leak from the rebuild' : 'memory fell over the run'}`,
-    )
     console.log('\nGoals: zero errors, p95 < 200 ms, memory that does not grow over the run.')
     const lines = readFileSync(logFile, 'utf8').split('\n')
-    // The server's own lines about the analytics columns: every rebuild (full or from the change log) and its time.
-    const rebuilds = lines.filter(l => l.startsWith('analytics'))
+    // The server's own lines about the warm-up and the analytics columns: every rebuild (full or from the change log) and its time.
+    const ownLine = (l: string) => l.startsWith('analytics') || l.startsWith('precedents:') || l.startsWith('warm-up')
+    const rebuilds = lines.filter(ownLine)
     if (rebuilds.length) {
-      console.log('\nanalytics column rebuilds (server log):')
+      console.log('\nwarm-up, analytics column and precedent history rebuilds (server log):')
       for (const l of rebuilds) console.log(`  ${l}`)
     }
-    const log = lines.filter(l => l.trim() && !l.startsWith('listening ') && !l.startsWith('analytics'))
+    const log = lines.filter(l => l.trim() && !l.startsWith('listening ') && !ownLine(l))
     if (log.length) {
       // pino lines: count the distinct error messages the server logged.
       const reasons = new Map<string, number>()
