@@ -14,10 +14,13 @@ import { sharedRead } from './shared-read'
  * can reach projects beyond those — e.g. a supplier's code changing.
  */
 export async function refreshCalibrationPairs(db: DbOrTx, projectIds?: readonly number[] | null): Promise<number> {
-  const ids = projectIds ? `{${[...new Set(projectIds)].map(id => String(Math.trunc(id))).join(',')}}` : null
+  const ids = projectIds ? idArrayLiteral([...new Set(projectIds)]) : null
   const res = await db.execute<{ v: string }>(sql`select refresh_calibration_pairs(${ids}::integer[])::text as v`)
   return Number(res.rows[0]!.v)
 }
+
+/** `{1,2,3}`: integer ids as a PostgreSQL array literal (whole numbers, so nothing to escape). */
+export const idArrayLiteral = (ids: readonly number[]): string => `{${ids.map(id => String(Math.trunc(id))).join(',')}}`
 
 /**
  * The node-postgres pool under a Drizzle handle (drizzle() keeps it as `$client`; the `Db` type

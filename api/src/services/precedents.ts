@@ -10,7 +10,7 @@ import { LB_PER_SHORT_TON } from '@shared/units/constants'
 import { knToKip } from '@shared/units/force'
 import { ftToIn, mToIn } from '@shared/units/length'
 import { schema, type Db } from '../db'
-import { changedSince, inSnapshot, readVersionIn } from '../db/calibration'
+import { changedSince, idArrayLiteral, inSnapshot, readVersionIn } from '../db/calibration'
 import { frames, levels, projects, suppliers } from '../db/history-schema'
 
 /**
@@ -30,9 +30,6 @@ interface Candidate extends PrecedentCandidate {
   /** Levels of the frame. */
   levelCount: number
 }
-
-/** `{1,2,3}`: integer ids as a PostgreSQL array literal (ids are whole numbers, so nothing to escape). */
-const idArray = (ids: readonly number[]) => `{${ids.map(id => String(Math.trunc(id))).join(',')}}`
 
 /** Every frame of a non-draft project; only those of `projectIds` when given. */
 export async function loadCandidates(db: Db, projectIds?: readonly number[]): Promise<Candidate[]> {
@@ -60,7 +57,7 @@ export async function loadCandidates(db: Db, projectIds?: readonly number[]): Pr
     .innerJoin(projects, eq(projects.id, frames.projectId))
     .leftJoin(suppliers, eq(suppliers.id, projects.supplierId))
     .leftJoin(levels, eq(levels.frameId, frames.id))
-    .where(projectIds ? and(eq(projects.draft, false), sql`${projects.id} = any(${idArray(projectIds)}::integer[])`) : eq(projects.draft, false))
+    .where(projectIds ? and(eq(projects.draft, false), sql`${projects.id} = any(${idArrayLiteral(projectIds)}::integer[])`) : eq(projects.draft, false))
     .groupBy(frames.id, projects.id, suppliers.code)
   return rows.map(({ projectStories, ...r }) => ({ ...r, stories: projectStories ?? (r.levelCount || null) }))
 }
@@ -150,14 +147,14 @@ export interface FrameLevels extends Record<(typeof LEVEL_VALUES)[number], Coded
 
 /** Braces of the projects `ids` (a subquery), so the snapshot scans of a partial read stay partial. */
 const bracesOf = (ids: readonly number[]) =>
-  `brace_id in (select b2.id from braces b2 join levels l2 on l2.id = b2.level_id join frames f2 on f2.id = l2.frame_id where f2.project_id = any('${idArray(ids)}'::integer[]))`
+  `brace_id in (select b2.id from braces b2 join levels l2 on l2.id = b2.level_id join frames f2 on f2.id = l2.frame_id where f2.project_id = any('${idArrayLiteral(ids)}'::integer[]))`
 const levelsSql = (projectIds?: readonly number[]) => `select l.frame_id, l.name, l.level_index, sd.brace_id is not null, fin.brace_id is not null,
     l.story_height_in, l.story_shear_kip,
     sd.core_area_in2, sd.beta, sd.omega, sd.stiffness_factor,
     fin.core_area_in2, fin.beta, fin.omega, fin.stiffness_factor, fin.factor_drift_multiple
   from levels l
   join frames f on f.id = l.frame_id
-  join projects p on p.id = f.project_id and not p.draft${projectIds ? ` and p.id = any('${idArray(projectIds)}'::integer[])` : ''}
+  join projects p on p.id = f.project_id and not p.draft${projectIds ? ` and p.id = any('${idArrayLiteral(projectIds)}'::integer[])` : ''}
   left join braces b on b.level_id = l.id
   left join (select distinct on (brace_id) brace_id, core_area_in2, beta, omega, stiffness_factor
       from brace_snapshots where confirmed and phase = 'sd'${projectIds ? ` and ${bracesOf(projectIds)}` : ''} order by brace_id, revision) sd on sd.brace_id = b.id
@@ -229,7 +226,7 @@ function copyLevels(from: FrameLevels, i: number, to: FrameLevels, at: number): 
 
 /** Final tonnage by category of every project that has some. */
 async function loadFinalTonnage(client: pg.PoolClient, projectIds?: readonly number[]): Promise<Map<number, Record<string, number>>> {
-  const only = projectIds ? ` and project_id = any('${idArray(projectIds)}'::integer[])` : ''
+  const only = projectIds ? ` and project_id = any('${idArrayLiteral(projectIds)}'::integer[])` : ''
   const { rows } = await client.query<unknown[]>({ text: `select project_id, category::text, tons_short from tonnage where stage = 'final'${only}`, rowMode: 'array' })
   const byProject = new Map<number, Record<string, number>>()
   for (const [projectId, category, tons] of rows as [number, string, number][]) {
@@ -321,13 +318,11 @@ async function loadHistory(db: Db, base: History | undefined): Promise<History> 
     report = { version, kind: 'full', projects: new Set(data.candidates.map(c => c.projectId)).size }
     return { version, data }
   })
-  const history: History =
-    base && data === base
-      ? { ...base, version }
-      : (() => {
-          const prepared = prepareCandidates(data.candidates)
-          return { version, ...data, prepared, spreads: prepared.spreads, slot: new Map(data.candidates.map((c, i) => [c.frameId, i])) }
-        })()
+  const history = ((): History => {
+    if (base && data === base) return { ...base, version }
+    const prepared = prepareCandidates(data.candidates)
+    return { version, ...data, prepared, spreads: prepared.spreads, slot: new Map(data.candidates.map((c, i) => [c.frameId, i])) }
+  })()
   loadListener?.({ ...report!, frames: history.candidates.length, ms: Math.round(performance.now() - t0) })
   return history
 }
