@@ -12,6 +12,7 @@ import { pino } from 'pino'
 import { pinoHttp } from 'pino-http'
 import { createPassport } from './auth'
 import { throttleTouch } from './session-store'
+import { answerFreshness, setAnswerGrace } from './services/answer-freshness'
 import type { Config } from './config'
 import type { Db } from './db'
 import type { Mailer } from './mail/mailer'
@@ -110,6 +111,9 @@ export function createApp(options: AppOptions): Express {
   )
   api.use(passport.initialize())
   api.use(passport.session())
+  // After the session lookup (its database round trip would not carry the request's context).
+  api.use(answerFreshness)
+  setAnswerGrace(options.db, config.answerGraceMs)
 
   for (const spec of routeTable.filter(r => !r.sessionless)) {
     // Access first (401/403 before anything else), then CSRF on state-changing methods.

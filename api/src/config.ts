@@ -23,6 +23,11 @@ const Env = z.object({
   DASHBOARD_DIST: z.string().optional(),
   SIGN_IN_LIMIT: z.coerce.number().int().min(1).default(20),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
+  /**
+   * How long a request waits for the newest data version's answer before it gets the previous
+   * version's, marked as such (see api/src/services/answer-freshness.ts); `off`: always wait.
+   */
+  ANSWER_GRACE_MS: z.union([z.literal('off'), z.coerce.number().int().min(0).max(60_000)]).default(50),
 })
 
 export type Config = {
@@ -38,6 +43,8 @@ export type Config = {
   dashboardDist?: string
   signInLimit: number
   logLevel: string
+  /** null: every answer is of the newest data version. */
+  answerGraceMs: number | null
 }
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
@@ -64,5 +71,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     dashboardDist: e.DASHBOARD_DIST,
     signInLimit: e.SIGN_IN_LIMIT,
     logLevel: e.LOG_LEVEL,
+    answerGraceMs: e.ANSWER_GRACE_MS === 'off' ? null : e.ANSWER_GRACE_MS,
   }
 }

@@ -25,6 +25,8 @@ export async function createTestApp(overrides: Record<string, string> = {}): Pro
     DATABASE_URL: db.url,
     PUBLIC_URL: 'http://backsight.test',
     SESSION_SECRET: 'test-secret-test-secret-test-secret',
+    // Every answer of the newest data version unless a test asks for the fallback (answer-freshness.ts).
+    ANSWER_GRACE_MS: 'off',
     ...overrides,
   })
   const mailer = createMailer(config.smtp)

@@ -24,7 +24,7 @@ export const audienceOf = (role: Role | undefined): Audience => (role === 'bd' ?
 type Filters = Pick<BenchmarkQuery, 'yearFrom' | 'yearTo' | 'use' | 'sdc' | 'region'>
 
 /** Every finished project with the figures the benchmarks need, read once per data version. */
-const projectsCache = historyCache<BenchmarkProject[]>(1)
+const projectsCache = historyCache<BenchmarkProject[]>()
 
 /**
  * The finished projects behind the benchmarks matching `filters`: the whole list is read once per
@@ -32,7 +32,7 @@ const projectsCache = historyCache<BenchmarkProject[]>(1)
  * SDC or region never matches a filter on it).
  */
 export async function loadBenchmarkProjects(db: Db, filters: Filters = {}): Promise<BenchmarkProject[]> {
-  const all = await projectsCache(db, 'all', () => queryBenchmarkProjects(db, {}))
+  const all = await projectsCache(db, () => queryBenchmarkProjects(db, {}))
   const { yearFrom, yearTo } = filters
   const use = filters.use?.length ? new Set<string>(filters.use) : null
   const sdc = filters.sdc?.length ? new Set<string>(filters.sdc) : null

@@ -328,7 +328,7 @@ async function loadHistory(db: Db, base: History | undefined): Promise<History> 
 }
 
 // Every past frame laid out for ranking, its levels and final tonnage: the same for every search until the data changes.
-const historyEntry = historyCache<History>(1)
+const historyEntry = historyCache<History>()
 /** The latest history read from each database, at whatever version: the base of the next read. */
 const lastHistory = new WeakMap<Db, Promise<History>>()
 
@@ -354,7 +354,7 @@ function levelsOf(L: FrameLevels, i: number): PrecedentMatch['levels'] {
 
 /** Every past frame laid out for ranking, read once per data version. */
 const historyOf = (db: Db): Promise<History> =>
-  historyEntry(db, 'all', () => {
+  historyEntry(db, () => {
     const prev = lastHistory.get(db)
     const load = (async () => loadHistory(db, prev ? await prev.catch(() => undefined) : undefined))()
     lastHistory.set(db, load)

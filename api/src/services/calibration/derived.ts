@@ -1,5 +1,6 @@
 import {
   QUANTITY_INFO,
+  STARTING_QUANTITIES,
   type CalibrationCost,
   type CalibrationFilters,
   type CalibrationGrouping,
@@ -13,7 +14,7 @@ import {
   type StartingSuggestion,
 } from '@shared/schemas/calibration'
 import { costOfProject, costTotals, histogramBins, type ProjectCost, quantileOfSorted, summarizeSortedRatios, yearBand, type TonnageByCategory } from '@shared/calibration'
-import { sortByValue, startingAnswerIndexed, startingLayout } from './starting-index'
+import { sortByValue, startingAnswerIndexed, startingIndex, startingLayout, startingQuantityIndex } from './starting-index'
 import type { PhaseData } from './store'
 
 /**
@@ -386,16 +387,35 @@ function missOrder(d: PhaseData, quantity: CalibrationQuantity, sort: MissSort):
   return o
 }
 
-/** Builds every per-version structure of `d` now (the queries would build each on first use). */
+/**
+ * Every per-version structure of `d` (the queries would build each on first use), as steps of a
+ * few tenths of a second at most, for a build in the background that pauses between them.
+ */
+export function preparationSteps(d: PhaseData): (() => void)[] {
+  const quantities = Object.keys(d.q) as CalibrationQuantity[]
+  return [
+    () => {
+      for (const g of ['supplier', 'configuration', 'yearBand', 'office', 'none'] as const) groupCodes(d, g)
+    },
+    ...quantities.map(q => () => sortedView(d, q)),
+    ...quantities.map(q => () => {
+      for (const s of ['ratio', 'project', 'year', 'supplier'] as const) missOrder(d, q, s)
+    }),
+    () => {
+      rowYears(d)
+      projectsByCode(d)
+      projectRowCounts(d)
+      selection(d, {})
+    },
+    ...STARTING_QUANTITIES.map(q => () => startingQuantityIndex(d, q)),
+    () => startingIndex(d),
+    () => startingLayout(d),
+  ]
+}
+
+/** Builds every per-version structure of `d` now. */
 export function prepare(d: PhaseData): void {
-  for (const g of ['supplier', 'configuration', 'yearBand', 'office', 'none'] as const) groupCodes(d, g)
-  for (const q of Object.keys(d.q) as CalibrationQuantity[]) sortedView(d, q)
-  for (const q of Object.keys(d.q) as CalibrationQuantity[]) for (const s of ['ratio', 'project', 'year', 'supplier'] as const) missOrder(d, q, s)
-  rowYears(d)
-  projectsByCode(d)
-  projectRowCounts(d)
-  selection(d, {})
-  startingLayout(d)
+  for (const step of preparationSteps(d)) step()
 }
 
 // ————————————————————————————————————————————— answers

@@ -71,21 +71,29 @@ export function startingIndex(d: PhaseData): StartingIndex {
 }
 
 function buildIndex(d: PhaseData): StartingIndex {
-  const projectId = Int32Array.from(d.project)
   const out = {} as StartingIndex
-  for (const quantity of STARTING_QUANTITIES) {
-    const col = d.q[quantity]
-    const cols: FactorColumns = { projectId, yearDesigned: d.yearDesigned, yearCompleted: d.yearCompleted, assumed: col.assumed, final: col.final }
-    const lists = new Map<number, number[]>()
-    for (let r = 0; r < d.n; r++) {
-      const b = col.basis[r]!
-      if (b >= 0) (lists.get(b) ?? lists.set(b, []).get(b)!).push(r)
-    }
-    const bases = new Map<number, BasisIndex>()
-    for (const [b, list] of lists) bases.set(b, basisIndex(cols, b, Int32Array.from(list), d.n))
-    out[quantity] = { cols, bases }
-  }
+  for (const quantity of STARTING_QUANTITIES) out[quantity] = startingQuantityIndex(d, quantity)
   return out
+}
+
+const quantityIndexes = new WeakMap<PhaseData, { projectId: Int32Array; built: Partial<StartingIndex> }>()
+
+/** One quantity's part of the index of `d` (built on first use; a background build takes them one by one). */
+export function startingQuantityIndex(d: PhaseData, quantity: StartingQuantity): QuantityIndex {
+  let parts = quantityIndexes.get(d)
+  if (!parts) quantityIndexes.set(d, (parts = { projectId: Int32Array.from(d.project), built: {} }))
+  const done = parts.built[quantity]
+  if (done) return done
+  const col = d.q[quantity]
+  const cols: FactorColumns = { projectId: parts.projectId, yearDesigned: d.yearDesigned, yearCompleted: d.yearCompleted, assumed: col.assumed, final: col.final }
+  const lists = new Map<number, number[]>()
+  for (let r = 0; r < d.n; r++) {
+    const b = col.basis[r]!
+    if (b >= 0) (lists.get(b) ?? lists.set(b, []).get(b)!).push(r)
+  }
+  const bases = new Map<number, BasisIndex>()
+  for (const [b, list] of lists) bases.set(b, basisIndex(cols, b, Int32Array.from(list), d.n))
+  return (parts.built[quantity] = { cols, bases })
 }
 
 function basisIndex(cols: FactorColumns, basis: number, rows: Int32Array, n: number): BasisIndex {

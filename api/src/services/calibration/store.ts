@@ -3,7 +3,8 @@ import { pairValue, type PairSnapshot } from '@shared/calibration/pairs'
 import type pg from 'pg'
 import type { Db } from '../../db'
 import { calibrationVersion, changedSince, inSnapshot, readVersionIn } from '../../db/calibration'
-import { prepare } from './derived'
+import { NotKept, PREVIOUS_KEPT_MS, answersMayLag, freshOrRecent, inBackground, inVersion, mayAnswerStale, noteStale, pauseAfter, versionScope } from '../answer-freshness'
+import { prepare, preparationSteps } from './derived'
 import { startingIndex } from './starting-index'
 
 /**
@@ -441,10 +442,14 @@ export function selectRows(d: PhaseData, f: Partial<CalibrationFilters>): Int32A
   return out.subarray(0, m)
 }
 
+type Compute = (version: number) => Promise<unknown>
+type BytesOf = (v: unknown) => number
+
 interface CacheEntry {
   value: Promise<unknown>
   /** Size once the value is known (0 while it is being computed). */
   bytes: number
+  done: boolean
 }
 
 interface Store {
@@ -453,20 +458,72 @@ interface Store {
   /** Answers by key, least recently used first (a Map keeps insertion order; a hit moves to the end). */
   cache: Map<string, CacheEntry>
   cacheBytes: number
+  /** When this version was first seen (ms, performance.now()). */
+  since: number
+  /**
+   * The store of the version before, kept PREVIOUS_KEPT_MS as the fallback of requests while this
+   * version's answers are built (see answer-freshness.ts); its cache shares the budget, and leaves first.
+   */
+  previous?: Store
+  /** A previous version's store: it only answers from what it holds, never loading anything. */
+  retired: boolean
+  /**
+   * The default phase's columns and the structures derived from them are built. Until then, with a
+   * previous version to fall back on, a request for an answer neither version holds gets it
+   * computed from the previous version's structures rather than wait for the build.
+   */
+  ready: boolean
 }
 
 const stores = new WeakMap<Db, Store>()
 /** Bytes of cached answers kept per database (bodies of large point sets count by size). */
 export const CACHE_BUDGET = 64 * 1024 * 1024
 
+/**
+ * The store a request or computation uses: in a computation for version V (a version scope), V's
+ * (the current store or the previous one); otherwise the current data version's.
+ */
 async function storeFor(db: Db): Promise<Store> {
+  const scope = versionScope()
+  const known = stores.get(db)
+  if (scope && known) {
+    if (known.version === scope.version) return known
+    if (known.previous?.version === scope.version) return known.previous
+  }
+  if (scope?.fallback) throw new NotKept('The analytics store')
   const version = await calibrationVersion(db)
   let s = stores.get(db)
   // Version answers reach their callers in the order the queries were sent (one query out at a
   // time, see calibrationVersion), so a differing version is the newer one.
   if (!s || s.version !== version) {
-    s = { version, phases: new Map(), cache: new Map(), cacheBytes: 0 }
+    const previous = s
+    if (previous) {
+      previous.previous = undefined
+      previous.retired = true
+    }
+    s = { version, phases: new Map(), cache: new Map(), cacheBytes: 0, since: performance.now(), previous, retired: false, ready: !previous || !answersMayLag(db) }
     stores.set(db, s)
+    if (!s.ready) {
+      const st = s
+      inBackground(db, `${version}|build`, 'build', () => stores.get(db) === st, async () => {
+        try {
+          const d = await inVersion(st.version, false, () => phaseData(db, DEFAULT_PHASE))
+          // Step by step, pausing after each (BACKGROUND_SHARE), so the requests meanwhile keep their pace.
+          for (const step of preparationSteps(d)) {
+            const t0 = performance.now()
+            step()
+            await pauseAfter(performance.now() - t0)
+          }
+        } finally {
+          st.ready = true
+          // From now on the previous version only answers from its cache: its columns (and the
+          // structures derived from them) can go.
+          st.previous?.phases.clear()
+        }
+      })
+    }
+  } else if (s.previous && performance.now() - s.since > PREVIOUS_KEPT_MS) {
+    s.previous = undefined
   }
   return s
 }
@@ -485,6 +542,7 @@ const loaded = new WeakMap<Db, Set<string>>()
 export async function phaseData(db: Db, phase: string): Promise<PhaseData> {
   const s = await storeFor(db)
   let p = s.phases.get(phase)
+  if (!p && s.retired) throw new NotKept(`The ${phase} columns`)
   if (!p) {
     let last = lastLoads.get(db)
     if (!last) lastLoads.set(db, (last = new Map()))
@@ -536,18 +594,56 @@ export const jsonBytes = (v: unknown): number => 2 * (JSON.stringify(v)?.length 
 /**
  * An answer computed once per data version and key. Concurrent first requests for a key share one
  * computation; a failed computation is not kept. `bytes` sizes the answer against the cache budget
- * (least recently used entries leave first), so the cache stays bounded.
+ * (least recently used entries leave first, the previous version's before the current one's), so
+ * the cache stays bounded. While the answer of a new version is computed, a request may get the
+ * previous version's (see answer-freshness.ts).
  */
 export async function cached<T>(db: Db, key: string, compute: (version: number) => Promise<T>, bytesOf: (v: T) => number = jsonBytes): Promise<T> {
   const s = await storeFor(db)
-  const hit = s.cache.get(key)
-  if (hit) {
+  let entry = s.cache.get(key)
+  const previous = s.retired || !mayAnswerStale(db) ? undefined : s.previous
+  if (entry) {
     s.cache.delete(key)
-    s.cache.set(key, hit)
-    return hit.value as Promise<T>
+    s.cache.set(key, entry)
   }
-  const value = compute(s.version)
-  const entry: CacheEntry = { value, bytes: 0 }
+  if (!previous) {
+    entry ??= startEntry(s, key, compute, bytesOf as (v: unknown) => number)
+    return entry.value as Promise<T>
+  }
+  if (entry?.done) return entry.value as Promise<T>
+  // Catching up after a data change. The previous version's answer: the one it holds, or, while
+  // this version's structures are still being built, one computed from the previous version's.
+  const fromPrevious = async (): Promise<T> => {
+    const held = previous.cache.get(key)
+    if (held?.done) return held.value as Promise<T>
+    if (s.ready) throw new NotKept('This answer')
+    return inVersion(previous.version, true, () => cached(db, key, compute, bytesOf))
+  }
+  if (!entry) {
+    try {
+      const value = await fromPrevious()
+      noteStale(previous.version, s.version)
+      refreshLater(db, s, key, compute as (version: number) => Promise<unknown>, bytesOf as (v: unknown) => number)
+      return value
+    } catch (err) {
+      if (!(err instanceof NotKept)) throw err
+    }
+    entry = s.cache.get(key) ?? startEntry(s, key, compute, bytesOf as (v: unknown) => number)
+  }
+  return freshOrRecent(db, entry.value as Promise<T>, fromPrevious, previous.version, s.version)
+}
+
+/** `key`'s answer at `s`'s version, computed in the background (one at a time) unless a request starts it first. */
+function refreshLater(db: Db, s: Store, key: string, compute: Compute, bytesOf: BytesOf): void {
+  inBackground(db, `${s.version}|${key}`, 'answer', () => stores.get(db) === s && !s.cache.has(key), async () => {
+    await startEntry(s, key, compute, bytesOf).value
+  })
+}
+
+/** Starts computing `key`'s answer at `s`'s version into `s`'s cache. */
+function startEntry(s: Store, key: string, compute: Compute, bytesOf: BytesOf): CacheEntry {
+  const value = inVersion(s.version, s.retired, () => compute(s.version))
+  const entry: CacheEntry = { value, bytes: 0, done: false }
   s.cache.set(key, entry)
   value.then(
     v => {
@@ -557,20 +653,24 @@ export async function cached<T>(db: Db, key: string, compute: (version: number) 
         s.cache.delete(key)
         return
       }
+      entry.done = true
       entry.bytes = bytes
       s.cacheBytes += bytes
-      for (const [k, e] of s.cache) {
-        if (s.cacheBytes <= CACHE_BUDGET) break
-        if (e === entry) continue
-        s.cache.delete(k)
-        s.cacheBytes -= e.bytes
+      const held = () => s.cacheBytes + (s.previous?.cacheBytes ?? 0)
+      for (const store of s.previous ? [s.previous, s] : [s]) {
+        for (const [k, e] of store.cache) {
+          if (held() <= CACHE_BUDGET) break
+          if (e === entry) continue
+          store.cache.delete(k)
+          store.cacheBytes -= e.bytes
+        }
       }
     },
     () => {
       if (s.cache.get(key) === entry) s.cache.delete(key)
     },
   )
-  return value
+  return entry
 }
 
 /** The cache of `db`'s current store, for tests: entries and bytes held. */
