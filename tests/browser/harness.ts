@@ -16,9 +16,9 @@ export interface Harness {
   close: () => Promise<void>
 }
 
-/** The real app with the built dashboard on a free port, and a headless Debian Chromium. */
-export async function startHarness(): Promise<Harness> {
-  const t = await createTestApp({ DASHBOARD_DIST: resolve('dist/dashboard') })
+/** The real app with the built dashboard on a free port, and a headless Debian Chromium. `env` adds to its configuration. */
+export async function startHarness(env: Record<string, string> = {}): Promise<Harness> {
+  const t = await createTestApp({ DASHBOARD_DIST: resolve('dist/dashboard'), ...env })
   const server: Server = await new Promise(ok => {
     const s = t.app.listen(0, '127.0.0.1', () => ok(s))
   })

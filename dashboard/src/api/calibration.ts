@@ -15,6 +15,7 @@ import {
 } from '@shared/schemas/calibration'
 import { apiQueryString } from '../utils/calibration-query'
 import { ApiError, apiErrorFrom, request, safeJson } from './client'
+import { noteFreshness } from './freshness'
 
 /** The Calibration review and Starting factors endpoints, one function each (contract: shared/schemas/calibration.ts). */
 
@@ -81,6 +82,7 @@ export async function getCalibrationPoints(quantity: CalibrationQuantity, groupB
   } catch {
     throw new ApiError(0, 'NETWORK', 'The server could not be reached.')
   }
+  noteFreshness(res)
   if (!res.ok) {
     const text = await res.text()
     throw apiErrorFrom(res.status, text ? safeJson(text) : undefined)

@@ -1,6 +1,7 @@
 import type { z } from 'zod'
 import { ApiErrorBody, type ErrorCode } from '@shared/schemas/api-error'
 import { CsrfResponse } from '@shared/schemas/auth'
+import { noteFreshness } from './freshness'
 
 /** Codes that exist only on the client: the server was unreachable, or answered off-contract. */
 export type ClientErrorCode = ErrorCode | 'NETWORK' | 'BAD_RESPONSE'
@@ -75,6 +76,7 @@ export async function request<S extends z.ZodType>(url: string, options: Request
   } catch {
     throw new ApiError(0, 'NETWORK', 'The server could not be reached.')
   }
+  noteFreshness(res)
   const text = await res.text()
   const json: unknown = text ? safeJson(text) : undefined
   if (!res.ok) throw apiErrorFrom(res.status, json, options.quiet401)

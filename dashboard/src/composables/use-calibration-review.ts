@@ -1,4 +1,5 @@
 import { computed, onMounted, shallowRef, watch } from 'vue'
+import { dataFreshness } from '../api/freshness'
 import { useRoute, useRouter } from 'vue-router'
 import type {
   CalibrationCost,
@@ -111,6 +112,11 @@ export function useCalibrationReview() {
   }
 
   watch(() => JSON.stringify(state.value), loadCharts)
+  // Figures from just before a data change: ask again (see api/freshness.ts).
+  watch(dataFreshness.epoch, async () => {
+    await loadOptions()
+    loadCharts()
+  })
   onMounted(async () => {
     await loadOptions()
     loadCharts()
