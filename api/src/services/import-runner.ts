@@ -1,7 +1,13 @@
 import { spawn } from 'node:child_process'
+import { existsSync } from 'node:fs'
 import { fileURLToPath } from 'node:url'
 
 const LOADER = fileURLToPath(new URL('../../../etl/src/cli.ts', import.meta.url))
+/**
+ * The loader runs at a lower CPU priority (nice 10, coreutils' nice where there is one): on a
+ * small server it shares the cores with the API, whose requests should not wait for a batch job.
+ */
+const NICE = existsSync('/usr/bin/nice') ? ['/usr/bin/nice', '-n', '10'] : []
 const ROOT = fileURLToPath(new URL('../../../', import.meta.url))
 
 /**
@@ -17,7 +23,8 @@ export function createImportRunner({ databaseUrl, parallel = 2, env = process.en
     while (active < parallel && waiting.length) {
       const job = waiting.shift()!
       active++
-      const child = spawn(process.execPath, ['--import', 'tsx', LOADER, '--run', String(job.runId)], {
+      const [command, ...args] = [...NICE, process.execPath, '--import', 'tsx', LOADER, '--run', String(job.runId)]
+      const child = spawn(command!, args, {
         cwd: ROOT,
         env: { ...env, DATABASE_URL: databaseUrl },
         stdio: 'ignore',
