@@ -40,6 +40,7 @@ import { migrateDb, openDb } from '../../api/src/db'
 import { ensureDemoUsers } from '../../api/src/services/users'
 import { ARROW_STREAM_TYPE } from '../../shared/schemas/calibration'
 import { expandPaths } from '../../etl/src/paths'
+import { STALE_HEADER } from '../../api/src/services/answer-freshness'
 import { readInputs, runImport } from '../../etl/src/run'
 import { startMailSink, type MailSink } from '../fakes/mail-sink'
 import { ensureDatabase, startCluster } from '../lib/postgres'
@@ -298,6 +299,8 @@ interface Sample {
   status: number
   /** Bytes of the response on the wire, headers included (compressed when the server gzipped it). */
   bytes: number
+  /** Answered from the data version before the newest, while the newest was built (Backsight-Data-Stale). */
+  stale: boolean
 }
 
 interface RssSample {
@@ -362,9 +365,10 @@ async function runPhase(ctx: PhaseContext, phase: Phase, upload: string): Promis
         context.t0 = performance.now()
         return { ...req, method: b.method, path: b.path, headers, body: b.body === undefined ? undefined : JSON.stringify(b.body) }
       },
-      onResponse: (status, body, context) => {
+      onResponse: (status, body, context, headers) => {
         const now = performance.now()
-        samples.push({ kind: context.kind as Kind, at: (now - runStart) / 1000, ms: now - (context.t0 as number), status, bytes: 0 })
+        const stale = Object.keys(headers).some(h => h.toLowerCase() === STALE_HEADER.toLowerCase())
+        samples.push({ kind: context.kind as Kind, at: (now - runStart) / 1000, ms: now - (context.t0 as number), status, bytes: 0, stale })
         if (status < 200 || status >= 300) {
           const key = `${status} ${context.path}: ${body.slice(0, 160)}`
           failures.set(key, (failures.get(key) ?? 0) + 1)
@@ -477,7 +481,20 @@ async function runPhase(ctx: PhaseContext, phase: Phase, upload: string): Promis
     console.log(`  before the upload: ${p(before)}`)
     console.log(`  while it ran:      ${p(during)}`)
     console.log(`  after it finished: ${after.length ? p(after) : '(finished after the load ended)'}`)
+    if (imp.uploadedAt !== undefined) {
+      // Second by second around the import: what the loader's run and the rebuilds after it cost.
+      console.log('  per second around it:  req/s    p95         max       answered from the version before')
+      const from = Math.max(0, Math.floor(imp.uploadedAt) - 2)
+      const to = Math.min(Math.ceil(runEnd), Math.ceil(imp.finishedAt ?? runEnd) + 8)
+      for (let t = from; t < to; t++) {
+        const xs = samples.filter(s => s.at >= t && s.at < t + 1)
+        const ts = xs.map(s => s.ms)
+        const mark = t <= imp.uploadedAt && imp.uploadedAt < t + 1 ? ' ← upload' : imp.finishedAt !== undefined && t <= imp.finishedAt && imp.finishedAt < t + 1 ? ' ← run seen finished' : ''
+        console.log(`    ${`${t}–${t + 1} s`.padEnd(10)} ${String(xs.length).padStart(9)} ${ms(pct(ts, 0.95)).padStart(11)} ${ms(ts.length ? Math.max(...ts) : NaN).padStart(11)}   ${String(xs.filter(s => s.stale).length).padStart(5)}${mark}`)
+      }
+    }
   }
+  console.log(`answers from the data version before the newest (served while it was built): ${samples.filter(s => s.stale).length} of ${samples.length}`)
 
   console.log('\nper 10 s:   req/s    p50         p95         max          server RSS (end of window)')
   for (let w = 0; w * 10 < runEnd - 0.5; w++) {
