@@ -9,15 +9,20 @@ import type { Db } from '../db'
  *
  * Every answer computed from the whole history (analytics, precedents, benchmarks) is tied to the
  * data version (`calibration_state.version`). After a data change, the structures of the new
- * version take a few seconds to build on a large history. Rather than make every request of those
- * seconds wait, a server with a grace period (`ANSWER_GRACE_MS`) waits that long for the new
- * version's answer and, if it is not ready, answers from the version before — which stays in memory
- * for a while (`PREVIOUS_KEPT_MS`) — and says so in the `Backsight-Data-Stale` header, which the
- * dashboard shows and acts on by asking again a moment later. The new version's answer goes on
- * being built, so the next request gets it. Without a grace (tests that call the services directly,
- * `ANSWER_GRACE_MS=off`) every answer is of the newest version, waiting if need be.
+ * version take seconds to build on a large history, and every cached answer has to be computed
+ * again. Rather than make the requests of those seconds wait, a server with a grace
+ * (`ANSWER_GRACE_MS`) answers from the version before, which stays in memory for a while
+ * (PREVIOUS_KEPT_MS), and says so in the `Backsight-Data-Stale` header; the dashboard shows that and
+ * asks again a moment later. Meanwhile the new version is built in the background (`inBackground`):
+ * first its structures (the analytics columns and what derives from them, the precedent history,
+ * the benchmark list), then each answer asked for, one job at a time on a quarter of the event loop.
+ * A request whose answer is neither held nor quickly computed at either version waits up to the
+ * grace for the new one. Without a grace (`ANSWER_GRACE_MS=off`, the default in tests, and services
+ * called directly) every answer is of the newest version, waiting if need be.
  *
- * Only ever one version back, and only whole answers: an answer is never a mix of two versions.
+ * Only ever one version back, and only whole answers: an answer is computed at one version, from
+ * that version's structures; one that would query the database itself is never computed for the
+ * previous version (READS_DATABASE in store.ts).
  */
 
 /** The response header of an answer from an older data version: `version=41; newest=42`. */

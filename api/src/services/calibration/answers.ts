@@ -17,7 +17,7 @@ import { poolOf } from '../../db/calibration'
 import { getSizingDefaults } from '../settings'
 import { getCalibrationSettings } from './settings'
 import { costAnswer, missesAnswer, pointRowsOf, startingAnswer, summaryAnswer, trendAnswer, type PointRows } from './derived'
-import { cached, phaseData } from './store'
+import { cached, jsonBytes, phaseData, READS_DATABASE } from './store'
 
 /*
  * The analytics answers: each is computed once per data version and query (the answer cache of
@@ -67,7 +67,7 @@ export async function calibrationOptions(db: Db): Promise<CalibrationOptions> {
       stiffnessTolerance: sizing.stiffnessTolerance,
       minGroupSize: settings.minGroupSize,
     }
-  })
+  }, jsonBytes, READS_DATABASE)
 }
 
 /** GET /api/calibration/summary */
@@ -98,7 +98,7 @@ async function tonnageByProject(db: Db): Promise<Map<number, { preliminary: Tonn
       e[r.stage][r.category] = r.tons
     }
     return m
-  }, m => m.size * 200)
+  }, m => m.size * 200, READS_DATABASE)
 }
 
 /** GET /api/calibration/cost */

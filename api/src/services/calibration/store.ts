@@ -442,6 +442,9 @@ export function selectRows(d: PhaseData, f: Partial<CalibrationFilters>): Int32A
   return out.subarray(0, m)
 }
 
+/** For `cached`: the computation queries the database itself (not only the version's columns and lists). */
+export const READS_DATABASE = { readsDatabase: true } as const
+
 type Compute = (version: number) => Promise<unknown>
 type BytesOf = (v: unknown) => number
 
@@ -598,9 +601,11 @@ export const jsonBytes = (v: unknown): number => 2 * (JSON.stringify(v)?.length 
  * the cache stays bounded. While the answer of a new version is computed, a request may get the
  * previous version's (see answer-freshness.ts).
  */
-export async function cached<T>(db: Db, key: string, compute: (version: number) => Promise<T>, bytesOf: (v: T) => number = jsonBytes): Promise<T> {
+export async function cached<T>(db: Db, key: string, compute: (version: number) => Promise<T>, bytesOf: (v: T) => number = jsonBytes, options: { readsDatabase?: boolean } = {}): Promise<T> {
   const s = await storeFor(db)
   let entry = s.cache.get(key)
+  // A previous version's answer that queries the database itself would be of the newest data: not computed.
+  if (!entry && s.retired && options.readsDatabase) throw new NotKept('This answer')
   const previous = s.retired || !mayAnswerStale(db) ? undefined : s.previous
   if (entry) {
     s.cache.delete(key)
@@ -617,7 +622,7 @@ export async function cached<T>(db: Db, key: string, compute: (version: number) 
     const held = previous.cache.get(key)
     if (held?.done) return held.value as Promise<T>
     if (s.ready) throw new NotKept('This answer')
-    return inVersion(previous.version, true, () => cached(db, key, compute, bytesOf))
+    return inVersion(previous.version, true, () => cached(db, key, compute, bytesOf, options))
   }
   if (!entry) {
     try {
