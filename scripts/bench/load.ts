@@ -40,7 +40,7 @@ import { migrateDb, openDb } from '../../api/src/db'
 import { ensureDemoUsers } from '../../api/src/services/users'
 import { ARROW_STREAM_TYPE } from '../../shared/schemas/calibration'
 import { expandPaths } from '../../etl/src/paths'
-import { STALE_HEADER } from '../../api/src/services/answer-freshness'
+import { DATA_STALE_HEADER } from '../../shared/schemas/freshness'
 import { readInputs, runImport } from '../../etl/src/run'
 import { startMailSink, type MailSink } from '../fakes/mail-sink'
 import { ensureDatabase, startCluster } from '../lib/postgres'
@@ -367,7 +367,7 @@ async function runPhase(ctx: PhaseContext, phase: Phase, upload: string): Promis
       },
       onResponse: (status, body, context, headers) => {
         const now = performance.now()
-        const stale = Object.keys(headers).some(h => h.toLowerCase() === STALE_HEADER.toLowerCase())
+        const stale = Object.keys(headers).some(h => h.toLowerCase() === DATA_STALE_HEADER.toLowerCase())
         samples.push({ kind: context.kind as Kind, at: (now - runStart) / 1000, ms: now - (context.t0 as number), status, bytes: 0, stale })
         if (status < 200 || status >= 300) {
           const key = `${status} ${context.path}: ${body.slice(0, 160)}`

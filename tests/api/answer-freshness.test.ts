@@ -1,7 +1,7 @@
 import pg from 'pg'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { runImport } from '../../etl/src/run'
-import { STALE_HEADER } from '../../api/src/services/answer-freshness'
+import { DATA_STALE_HEADER } from '@shared/schemas/freshness'
 import { validProject } from '../etl/bundle-builder'
 import { createTestApp, signedIn, type TestApp } from '../helpers/app'
 import { workbookOf } from '../helpers/history-files'
@@ -36,7 +36,7 @@ describe('answers while the next data version is built', () => {
     const o1 = await options()
     const b1 = await benchmarks('use')
     const c1 = await precedents()
-    for (const r of [s1, o1, b1, c1]) expect(r.headers[STALE_HEADER.toLowerCase()]).toBeUndefined()
+    for (const r of [s1, o1, b1, c1]) expect(r.headers[DATA_STALE_HEADER.toLowerCase()]).toBeUndefined()
     const v1 = await version()
 
     await load('AF-003')
@@ -51,7 +51,7 @@ describe('answers while the next data version is built', () => {
       await blocker.query('lock table calibration_pairs, projects in access exclusive mode')
       const stale = `version=${v1}; newest=${v2}`
       const [s2, o2, b2, c2, s2b, b2b] = [await summary('supplier'), await options(), await benchmarks('use'), await precedents(), await summary('configuration'), await benchmarks('sdc')]
-      for (const r of [s2, o2, b2, c2, s2b, b2b]) expect(r.headers[STALE_HEADER.toLowerCase()]).toBe(stale)
+      for (const r of [s2, o2, b2, c2, s2b, b2b]) expect(r.headers[DATA_STALE_HEADER.toLowerCase()]).toBe(stale)
       // The very answers of the version before…
       expect(s2.body).toEqual(s1.body)
       expect(o2.body).toEqual(o1.body)
@@ -69,7 +69,7 @@ describe('answers while the next data version is built', () => {
     const fresh = async <R extends { headers: Record<string, string | undefined> }>(ask: () => Promise<R>): Promise<R> => {
       for (let i = 0; i < 100; i++) {
         const r = await ask()
-        if (r.headers[STALE_HEADER.toLowerCase()] === undefined) return r
+        if (r.headers[DATA_STALE_HEADER.toLowerCase()] === undefined) return r
         await new Promise(ok => setTimeout(ok, 50))
       }
       throw new Error('still answering from the previous version after 5 s')

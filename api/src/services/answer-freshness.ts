@@ -25,9 +25,6 @@ import type { Db } from '../db'
  * previous version (READS_DATABASE in store.ts).
  */
 
-/** The response header of an answer from an older data version: `version=41; newest=42`. */
-export const STALE_HEADER = DATA_STALE_HEADER
-
 /** How long a superseded version's structures and answers stay available as fallbacks. */
 export const PREVIOUS_KEPT_MS = 180_000
 
@@ -75,7 +72,7 @@ const requests = new AsyncLocalStorage<RequestFreshness>()
 export function answerFreshness(_req: Request, res: Response, next: NextFunction): void {
   const ctx: RequestFreshness = {}
   onHeaders(res, () => {
-    if (ctx.stale) res.setHeader(STALE_HEADER, `version=${ctx.stale.version}; newest=${ctx.stale.newest}`)
+    if (ctx.stale) res.setHeader(DATA_STALE_HEADER, `version=${ctx.stale.version}; newest=${ctx.stale.newest}`)
   })
   requests.run(ctx, next)
 }
@@ -96,12 +93,12 @@ export function noteStale(version: number, newest: number): void {
 /**
  * `fresh` (the newest version's answer) if it settles within the grace, else `recent()` (the same
  * answer at `recentVersion`), marking the request stale. Inside a computation (a version scope), or
- * without a grace or a recent answer, always `fresh`; so too when the recent answer turns out not
+ * without a grace, always `fresh`; so too when the recent answer turns out not
  * to be in memory any more (NotKept).
  */
-export async function freshOrRecent<T>(db: Db, fresh: Promise<T>, recent: (() => Promise<T>) | null, recentVersion: number, newest: number): Promise<T> {
+export async function freshOrRecent<T>(db: Db, fresh: Promise<T>, recent: () => Promise<T>, recentVersion: number, newest: number): Promise<T> {
   const grace = graces.get(db)
-  if (grace === undefined || !recent || scopes.getStore()) return fresh
+  if (grace === undefined || scopes.getStore()) return fresh
   let timer: NodeJS.Timeout | undefined
   const late = new Promise<'late'>(resolve => {
     timer = setTimeout(resolve, grace, 'late')

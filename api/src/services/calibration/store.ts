@@ -612,7 +612,7 @@ export async function cached<T>(db: Db, key: string, compute: (version: number) 
     s.cache.set(key, entry)
   }
   if (!previous) {
-    entry ??= startEntry(s, key, compute, bytesOf as (v: unknown) => number)
+    entry ??= startEntry(s, key, compute, bytesOf as BytesOf)
     return entry.value as Promise<T>
   }
   if (entry?.done) return entry.value as Promise<T>
@@ -628,12 +628,12 @@ export async function cached<T>(db: Db, key: string, compute: (version: number) 
     try {
       const value = await fromPrevious()
       noteStale(previous.version, s.version)
-      refreshLater(db, s, key, compute as (version: number) => Promise<unknown>, bytesOf as (v: unknown) => number)
+      refreshLater(db, s, key, compute, bytesOf as BytesOf)
       return value
     } catch (err) {
       if (!(err instanceof NotKept)) throw err
     }
-    entry = s.cache.get(key) ?? startEntry(s, key, compute, bytesOf as (v: unknown) => number)
+    entry = s.cache.get(key) ?? startEntry(s, key, compute, bytesOf as BytesOf)
   }
   return freshOrRecent(db, entry.value as Promise<T>, fromPrevious, previous.version, s.version)
 }
