@@ -1,7 +1,11 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { refreshCalibrationPairs } from '../../api/src/db/calibration'
 import { loadBenchmarkProjects } from '../../api/src/services/benchmarks'
-import { analyticsReady } from '../../api/src/services/calibration/store'
+import { analyticsReady, cacheStats } from '../../api/src/services/calibration/store'
+import { calibrationSummary } from '../../api/src/services/calibration/answers'
+import { benchmarks } from '../../api/src/services/benchmarks'
+import { BenchmarkQuery } from '@shared/schemas/benchmarks'
+import { CalibrationFilters } from '@shared/schemas/calibration'
 import { searchPrecedents } from '../../api/src/services/precedents'
 import { warmUp } from '../../api/src/services/warm-up'
 import { openDb } from '../../api/src/db'
@@ -40,6 +44,18 @@ describe('server warm-up', () => {
     expect(search.matches.map(m => m.name).sort()).toEqual(['Warm one', 'Warm two'])
     const listed = await loadBenchmarkProjects(t.db.db)
     expect(listed.map(p => p.name).sort()).toEqual(['Warm one', 'Warm two'])
+  })
+
+  it('leaves the answers the screens open with in the answer cache, and only those', async () => {
+    const before = cacheStats(t.db.db)!
+    // 1 options + 1 cost (+ its tonnage) + 1 starting factors + 7 quantities × (trend, misses, 5 groupings) + 2 audiences × 5 groupings × 2 units
+    expect(before.entries).toBe(1 + 2 + 1 + 7 * 7 + 2 * 5 * 2)
+    // An opening answer is served from the cache (no entry added); a filtered one is computed.
+    await calibrationSummary(t.db.db, CalibrationFilters.parse({}), 'cmax', 'supplier')
+    await benchmarks(t.db.db, BenchmarkQuery.parse({ groupBy: 'sdc', units: 'si' }), 'bd')
+    expect(cacheStats(t.db.db)!.entries).toBe(before.entries)
+    await calibrationSummary(t.db.db, CalibrationFilters.parse({ supplier: 'ZZ' }), 'cmax', 'supplier')
+    expect(cacheStats(t.db.db)!.entries).toBe(before.entries + 1)
   })
 
   it('logs a failure of each part and does not throw when the database is gone', async () => {
