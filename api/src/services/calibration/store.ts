@@ -3,7 +3,7 @@ import { pairValue, type PairSnapshot } from '@shared/calibration/pairs'
 import type pg from 'pg'
 import type { Db } from '../../db'
 import { calibrationVersion, changedSince, inSnapshot, readVersionIn } from '../../db/calibration'
-import { NotKept, PREVIOUS_KEPT_MS, answersMayLag, freshOrRecent, inBackground, inVersion, mayAnswerStale, noteStale, pauseAfter, versionScope } from '../answer-freshness'
+import { NotKept, PREVIOUS_KEPT_MS, SLICE_MS, answersMayLag, freshOrRecent, inBackground, inVersion, mayAnswerStale, noteStale, pauseAfter, versionScope } from '../answer-freshness'
 import { prepare, preparationSteps } from './derived'
 import { startingIndex } from './starting-index'
 
@@ -247,7 +247,9 @@ export async function loadPhase(db: Db, phase: string): Promise<PhaseData> {
  * laid out exactly as a full load would: rows in brace-id order, project indices, dictionary codes
  * and bases numbered by first appearance in that order.
  */
-export function mergePhase(base: PhaseData, part: PhaseData, changed: ReadonlySet<number>, version: number): PhaseData {
+export async function mergePhase(base: PhaseData, part: PhaseData, changed: ReadonlySet<number>, version: number): Promise<PhaseData> {
+  // A quarter of a million rows take a few hundred ms: requests waiting meanwhile are let in every SLICE_MS.
+  let sliceStart = performance.now()
   const dropProject = new Uint8Array(base.projects.id.length)
   base.projects.id.forEach((id, j) => (dropProject[j] = Number(changed.has(id))))
   let kept = 0
@@ -278,6 +280,10 @@ export function mergePhase(base: PhaseData, part: PhaseData, changed: ReadonlySe
   }
   skip()
   for (let o = 0; o < n; o++) {
+    if ((o & 4095) === 0 && performance.now() - sliceStart > SLICE_MS) {
+      await new Promise(resolve => setImmediate(resolve))
+      sliceStart = performance.now()
+    }
     // The smaller brace id comes first (a brace belongs to one project, so ids never tie).
     const fromPart = i >= base.n || (j < part.n && part.braceId[j]! < base.braceId[i]!)
     const si = fromPart ? 1 : 0
@@ -392,7 +398,7 @@ export async function reloadPhase(db: Db, phase: string, base: PhaseData | null)
     const part = await buildColumns(phase, version, count, projectRows, (async function* () {
       yield rows
     })())
-    const d = mergePhase(base, part, new Set(changed), version)
+    const d = await mergePhase(base, part, new Set(changed), version)
     report = { phase, version, kind: 'delta', projects: changed.length, rows: d.n }
     return d
   })
@@ -511,10 +517,17 @@ async function storeFor(db: Db): Promise<Store> {
       inBackground(db, `${version}|build`, 'build', () => stores.get(db) === st, async () => {
         try {
           const d = await inVersion(st.version, false, () => phaseData(db, DEFAULT_PHASE))
-          // Step by step, pausing after each (BACKGROUND_SHARE), so the requests meanwhile keep their pace.
+          // Step by step (a long step part by part), pausing after each (BACKGROUND_SHARE), so the
+          // requests meanwhile keep their pace and none waits behind a long stretch of building.
           for (const step of preparationSteps(d)) {
-            const t0 = performance.now()
-            step()
+            let t0 = performance.now()
+            const parts = step()
+            if (parts) {
+              while (!parts.next().done) {
+                await pauseAfter(performance.now() - t0)
+                t0 = performance.now()
+              }
+            }
             await pauseAfter(performance.now() - t0)
           }
         } finally {
@@ -625,10 +638,14 @@ export async function cached<T>(db: Db, key: string, compute: (version: number) 
     return inVersion(previous.version, true, () => cached(db, key, compute, bytesOf, options))
   }
   if (!entry) {
+    // An answer the previous version held was asked for before and is likely to be asked again:
+    // this version's is computed in the background. One asked for the first time is not (most
+    // such questions are asked once; a second asking computes it then).
+    const asked = previous.cache.get(key)?.done === true
     try {
       const value = await fromPrevious()
       noteStale(previous.version, s.version)
-      refreshLater(db, s, key, compute, bytesOf as BytesOf)
+      if (asked) refreshLater(db, s, key, compute, bytesOf as BytesOf)
       return value
     } catch (err) {
       if (!(err instanceof NotKept)) throw err
