@@ -2,9 +2,13 @@
  * The server `npm run bench:load` starts in a process of its own: the real app (createApp) built
  * from the environment the way `npm start` builds it (loadConfig), with the built dashboard when
  * DASHBOARD_DIST is set. Started as `node --import tsx scripts/bench/load-server.ts`, so the
- * process id the benchmark samples is the server itself. Prints `listening <port>` once it listens;
- * SIGTERM closes it. Not a way to run the product: `npm start` is.
+ * process id the benchmark samples is the server itself. Prints `listening <port>` once it listens,
+ * then every second `memory <rss> <heapUsed> <arrayBuffers>` (bytes, process.memoryUsage) and after
+ * each full (mark-compact) collection `gc-major <heapUsed>`: the heap the server's live objects hold,
+ * which RSS (V8 keeps freed pages) does not show. SIGTERM closes it. Not a way to run the product:
+ * `npm start` is.
  */
+import { constants, PerformanceObserver } from 'node:perf_hooks'
 import { createApp } from '../../api/src/app'
 import { loadConfig } from '../../api/src/config'
 import { openDb } from '../../api/src/db'
@@ -23,6 +27,13 @@ async function main() {
   })
   const addr = server.address()
   console.log(`listening ${typeof addr === 'object' && addr ? addr.port : config.port}`)
+  setInterval(() => {
+    const m = process.memoryUsage()
+    console.log(`memory ${m.rss} ${m.heapUsed} ${m.arrayBuffers}`)
+  }, 1000).unref()
+  new PerformanceObserver(list => {
+    for (const e of list.getEntries()) if (((e as unknown as { detail?: { kind?: number } }).detail)?.kind === constants.NODE_PERFORMANCE_GC_MAJOR) console.log(`gc-major ${process.memoryUsage().heapUsed}`)
+  }).observe({ entryTypes: ['gc'] })
   // As api/src/server.ts does: the warm-up runs in the background; /api/health says when the analytics are ready.
   startWarmUp(db)
   const stop = () => {

@@ -125,7 +125,17 @@ const mb = (kb: number) => (Number.isFinite(kb) ? `${(kb / 1024).toFixed(0)} MB`
 interface Server {
   child: ChildProcess
   port: number
+  /** The server's own memory readings (load-server.ts), `at` in performance.now() ms of this process. */
+  memory: MemorySample[]
+  /** Heap used right after each full collection: what the live objects hold. */
+  fullGcs: { at: number; heap: number }[]
   stop: () => Promise<void>
+}
+
+interface MemorySample {
+  at: number
+  heap: number
+  arrayBuffers: number
 }
 
 async function startServer(env: NodeJS.ProcessEnv, logFile: string): Promise<Server> {
@@ -140,9 +150,15 @@ async function startServer(env: NodeJS.ProcessEnv, logFile: string): Promise<Ser
     stdio: ['ignore', 'pipe', 'pipe'],
   })
   child.stderr!.pipe(log, { end: false })
+  const memory: MemorySample[] = []
+  const fullGcs: Server['fullGcs'] = []
   const listening = new Promise<void>((ok, fail) => {
     const lines = createInterface({ input: child.stdout! })
     lines.on('line', line => {
+      const [what, ...values] = line.split(' ')
+      const n = values.map(Number)
+      if (what === 'memory') return void memory.push({ at: performance.now(), heap: n[1]! / 1024, arrayBuffers: n[2]! / 1024 })
+      if (what === 'gc-major') return void fullGcs.push({ at: performance.now(), heap: n[0]! / 1024 })
       log.write(`${line}\n`)
       if (line.startsWith('listening ')) ok()
     })
@@ -153,6 +169,8 @@ async function startServer(env: NodeJS.ProcessEnv, logFile: string): Promise<Ser
   return {
     child,
     port,
+    memory,
+    fullGcs,
     stop: () =>
       new Promise<void>(done => {
         if (child.exitCode !== null || child.signalCode !== null) return done()
@@ -318,6 +336,7 @@ interface PhaseContext {
   /** The server's RSS, sampled every second from `benchStart` on. */
   rss: RssSample[]
   benchStart: number
+  server: Server
 }
 
 interface PhaseOutcome {
@@ -329,11 +348,16 @@ interface PhaseOutcome {
   errors: number
   rssFirst: number
   rssLast: number
+  /** Heap used after the phase's last full collection, and when (s into the phase); NaN if none ran. */
+  liveHeap: number
+  liveHeapAt: number
+  /** Median array-buffer memory (the analytics columns, Arrow answers) over the phase's last 10 s. */
+  arrayBuffers: number
 }
 
 /** One phase of the load: the mix for DURATION seconds, an upload half way through, and its report. */
 async function runPhase(ctx: PhaseContext, phase: Phase, upload: string): Promise<PhaseOutcome> {
-  const { base, analysts, bizdev, uploader, mix, rss, benchStart } = ctx
+  const { base, analysts, bizdev, uploader, mix, rss, benchStart, server } = ctx
   const label = phase.pace ? `paced (${phase.pace} request/s per session)` : 'saturation (no pause between requests)'
   console.log(`\n═══ ${label} ═══`)
   const runStart = performance.now()
@@ -496,12 +520,25 @@ async function runPhase(ctx: PhaseContext, phase: Phase, upload: string): Promis
   }
   console.log(`answers from the data version before the newest (served while it was built): ${samples.filter(s => s.stale).length} of ${samples.length}`)
 
-  console.log('\nper 10 s:   req/s    p50         p95         max          server RSS (end of window)')
+  // The first seconds of the phase: after a server start, every answer is asked for the first time.
+  console.log('\nfirst 10 s, second by second:  req/s    p95         max')
+  for (let t = 0; t < Math.min(10, runEnd); t++) {
+    const ts = samples.filter(s => s.at >= t && s.at < t + 1).map(s => s.ms)
+    console.log(`    ${`${t}–${t + 1} s`.padEnd(10)} ${String(ts.length).padStart(18)} ${ms(pct(ts, 0.95)).padStart(11)} ${ms(ts.length ? Math.max(...ts) : NaN).padStart(11)}`)
+  }
+
+  // Memory in the window: RSS from /proc; the heap after the window's last full collection (what
+  // live objects hold; '—' when none ran in it) and the array buffers, from the server itself.
+  const phaseT0 = runStart
+  const inPhase = <T extends { at: number }>(xs: T[], from: number, to: number) => xs.filter(x => x.at - phaseT0 >= from * 1000 && x.at - phaseT0 < to * 1000)
+  console.log('\nper 10 s:   req/s    p50         p95         max          server RSS   heap after full GC   array buffers (end of window)')
   for (let w = 0; w * 10 < runEnd - 0.5; w++) {
     const to = Math.min((w + 1) * 10, runEnd)
     const xs = samples.filter(s => s.at >= w * 10 && s.at < to).map(s => s.ms)
     const r = rss.filter(s => s.at - phaseAt < to).at(-1)
-    console.log(`${`${w * 10}–${to.toFixed(0)} s`.padEnd(10)} ${(xs.length / (to - w * 10)).toFixed(1).padStart(7)} ${ms(pct(xs, 0.5)).padStart(10)} ${ms(pct(xs, 0.95)).padStart(11)} ${ms(xs.length ? Math.max(...xs) : NaN).padStart(11)}   ${mb(r?.rss ?? NaN).padStart(8)}`)
+    const gc = inPhase(server.fullGcs, w * 10, to).at(-1)
+    const buffers = inPhase(server.memory, w * 10, to).at(-1)
+    console.log(`${`${w * 10}–${to.toFixed(0)} s`.padEnd(10)} ${(xs.length / (to - w * 10)).toFixed(1).padStart(7)} ${ms(pct(xs, 0.5)).padStart(10)} ${ms(pct(xs, 0.95)).padStart(11)} ${ms(xs.length ? Math.max(...xs) : NaN).padStart(11)}   ${mb(r?.rss ?? NaN).padStart(8)}   ${mb(gc?.heap ?? NaN).padStart(12)}   ${mb(buffers?.arrayBuffers ?? NaN).padStart(14)}`)
   }
 
   const during = rss.filter(s => s.at >= phaseAt && s.at - phaseAt <= runEnd)
@@ -514,6 +551,9 @@ async function runPhase(ctx: PhaseContext, phase: Phase, upload: string): Promis
     errors: errorsNon2xx + result.errors,
     rssFirst: median(during.filter(s => s.at - phaseAt < 10).map(s => s.rss)),
     rssLast: median(during.filter(s => s.at - phaseAt >= runEnd - 10).map(s => s.rss)),
+    liveHeap: inPhase(server.fullGcs, 0, runEnd).at(-1)?.heap ?? NaN,
+    liveHeapAt: ((inPhase(server.fullGcs, 0, runEnd).at(-1)?.at ?? NaN) - phaseT0) / 1000,
+    arrayBuffers: median(inPhase(server.memory, runEnd - 10, runEnd).map(m => m.arrayBuffers)),
   }
 }
 
@@ -627,7 +667,7 @@ async function main() {
     // 5. The load, phase by phase, each with its own upload half way through.
     const mix = (Object.entries(WEIGHTS) as [Kind, number][]).filter(([k]) => !ONLY || ONLY.includes(k))
     if (!mix.length) throw new Error(`BENCH_ONLY=${ONLY?.join(',')} names no endpoint of the mix (${Object.keys(WEIGHTS).join(', ')})`)
-    const ctx: PhaseContext = { base, analysts, bizdev, uploader, mix, rss, benchStart }
+    const ctx: PhaseContext = { base, analysts, bizdev, uploader, mix, rss, benchStart, server }
     const outcomes: PhaseOutcome[] = []
     for (const [i, phase] of PHASES.entries()) outcomes.push(await runPhase(ctx, phase, uploads[i]!))
     const atEnd = rssOf(pid)!
@@ -641,8 +681,15 @@ async function main() {
     for (const o of outcomes) console.log(`${o.label.padEnd(44)} ${o.rate.toFixed(1).padStart(8)} ${ms(o.p50).padStart(10)} ${ms(o.p95).padStart(11)} ${ms(o.p99).padStart(11)} ${String(o.errors).padStart(8)}`)
     const peak = Math.max(...rss.map(x => x.rss), atEnd.rss, idle.rss)
     console.log(`\nserver RSS (/proc/${pid}/status, ${rss.length} samples over ${((performance.now() - benchStart) / 1000).toFixed(0)} s): start ${mb(start.rss)} (idle, signed in, warm-up done, no answer computed yet); peak ${mb(peak)} (kernel VmHWM ${mb(idle.hwm)}); end of load ${mb(atEnd.rss)}; 5 s after the load stopped ${mb(idle.rss)}`)
-    for (const o of outcomes) console.log(`  ${o.label}: median RSS over its first 10 s ${mb(o.rssFirst)}, over its last 10 s ${mb(o.rssLast)}`)
+    for (const o of outcomes) console.log(`  ${o.label}: median RSS over its first 10 s ${mb(o.rssFirst)}, over its last 10 s ${mb(o.rssLast)}; heap after its last full GC ${mb(o.liveHeap)} (at ${o.liveHeapAt.toFixed(0)} s); array buffers over its last 10 s ${mb(o.arrayBuffers)}`)
     if (outcomes.length > 1) {
+      // What the server's live objects hold: heap after a full collection plus array buffers (the
+      // columns and Arrow answers live there, outside the heap). RSS also counts pages V8 keeps.
+      const live = (o: PhaseOutcome) => o.liveHeap + o.arrayBuffers
+      const firstLive = live(outcomes[0]!)
+      const lastLive = live(outcomes.at(-1)!)
+      const liveGrowth = lastLive - firstLive
+      console.log(`  live memory (heap after the last full GC + array buffers), end of the first phase → end of the last: ${mb(firstLive)} → ${mb(lastLive)} (${liveGrowth > 0 ? '+' : ''}${mb(liveGrowth)})`)
       const first = outcomes[0]!.rssLast
       const last = outcomes.at(-1)!.rssLast
       const growth = last - first

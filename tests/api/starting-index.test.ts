@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import { STARTING_QUANTITIES } from '@shared/schemas/calibration'
 import { backtest, quantileOfSorted, suggestStarting, type FactorColumns } from '@shared/calibration'
-import { backtestIndexed, groupSortedFinals, quantileBy, startingIndex } from '../../api/src/services/calibration/starting-index'
+import { backtestIndexed, drain, groupSortedFinals, quantileBy, quantityIndexSteps, startingIndex, startingQuantityIndex } from '../../api/src/services/calibration/starting-index'
 import type { PhaseData } from '../../api/src/services/calibration/store'
 import { rng } from '../../scripts/bench/synthetic'
 
@@ -87,6 +87,38 @@ describe('starting factors on the per-version index', () => {
       expect(compared).toBeGreaterThan(50)
     })
   }
+})
+
+describe('the index built step by step (as a background build does)', () => {
+  it('yields after grouping the rows and after each basis, and builds what the one-shot build does', () => {
+    const steps = quantityIndexSteps(history(4, 60, false), 'beta')
+    let yields = 0
+    let r = steps.next()
+    for (; !r.done; r = steps.next()) yields++
+    // Two bases in this history: one yield after grouping, one after each basis.
+    expect(yields).toBe(3)
+    const once = startingQuantityIndex(history(4, 60, false), 'beta')
+    expect([...r.value.bases.keys()].sort()).toEqual([0, 1])
+    for (const b of [0, 1]) {
+      const a = r.value.bases.get(b)!
+      const o = once.bases.get(b)!
+      expect(Array.from(a.byValue)).toEqual(Array.from(o.byValue))
+      expect(Array.from(a.finalValues)).toEqual(Array.from(o.finalValues))
+      expect(Array.from(a.firmProjectsAt)).toEqual(Array.from(o.firmProjectsAt))
+    }
+  })
+
+  it('keeps the part a request built while the background build was half way, and that one only', () => {
+    const d = history(5, 30, false)
+    const steps = quantityIndexSteps(d, 'omega')
+    steps.next()
+    steps.next()
+    // A request needs the part now: it builds it at once.
+    const byRequest = startingQuantityIndex(d, 'omega')
+    expect(drain(steps)).toBe(byRequest)
+    expect(startingQuantityIndex(d, 'omega')).toBe(byRequest)
+    expect(startingIndex(d).omega).toBe(byRequest)
+  })
 })
 
 describe('quantileBy', () => {

@@ -122,6 +122,8 @@ export async function freshOrRecent<T>(db: Db, fresh: Promise<T>, recent: () => 
  * its time on requests, so a quarter leaves room for them.
  */
 export const BACKGROUND_SHARE = 0.25
+/** Longest stretch of catching-up work (a merge of the columns) before the requests waiting meanwhile are let in. */
+export const SLICE_MS = 25
 export const pauseAfter = (busyMs: number) => new Promise(resolve => setTimeout(resolve, (busyMs * (1 - BACKGROUND_SHARE)) / BACKGROUND_SHARE))
 
 interface BackgroundJob {

@@ -14,7 +14,7 @@ import {
   type StartingSuggestion,
 } from '@shared/schemas/calibration'
 import { costOfProject, costTotals, histogramBins, type ProjectCost, quantileOfSorted, summarizeSortedRatios, yearBand, type TonnageByCategory } from '@shared/calibration'
-import { sortByValue, startingAnswerIndexed, startingIndex, startingLayout, startingQuantityIndex } from './starting-index'
+import { drain, layoutSteps, quantityIndexSteps, sortByValue, startingAnswerIndexed, startingIndex } from './starting-index'
 import type { PhaseData } from './store'
 
 /**
@@ -391,31 +391,38 @@ function missOrder(d: PhaseData, quantity: CalibrationQuantity, sort: MissSort):
  * Every per-version structure of `d` (the queries would build each on first use), as steps of a
  * few tenths of a second at most, for a build in the background that pauses between them.
  */
-export function preparationSteps(d: PhaseData): (() => void)[] {
+export function preparationSteps(d: PhaseData): PreparationStep[] {
   const quantities = Object.keys(d.q) as CalibrationQuantity[]
   return [
     () => {
       for (const g of ['supplier', 'configuration', 'yearBand', 'office', 'none'] as const) groupCodes(d, g)
     },
-    ...quantities.map(q => () => sortedView(d, q)),
-    ...quantities.map(q => () => {
-      for (const s of ['ratio', 'project', 'year', 'supplier'] as const) missOrder(d, q, s)
-    }),
+    ...quantities.flatMap(q => [() => void rowsByRatio(d, q), () => void sortedView(d, q)]),
+    ...quantities.flatMap(q => (['ratio', 'project', 'year', 'supplier'] as const).map(s => () => void missOrder(d, q, s))),
     () => {
       rowYears(d)
       projectsByCode(d)
       projectRowCounts(d)
       selection(d, {})
     },
-    ...STARTING_QUANTITIES.map(q => () => startingQuantityIndex(d, q)),
-    () => startingIndex(d),
-    () => startingLayout(d),
+    ...STARTING_QUANTITIES.map(q => () => quantityIndexSteps(d, q)),
+    () => void startingIndex(d),
+    () => layoutSteps(d),
   ]
 }
 
+/**
+ * One step of `preparationSteps`: done when it returns, or, for the longer ones, a build that yields
+ * between its parts (a background build runs it part by part, pausing in between).
+ */
+export type PreparationStep = () => void | Generator<void, unknown>
+
 /** Builds every per-version structure of `d` now. */
 export function prepare(d: PhaseData): void {
-  for (const step of preparationSteps(d)) step()
+  for (const step of preparationSteps(d)) {
+    const parts = step()
+    if (parts) drain(parts)
+  }
 }
 
 // ————————————————————————————————————————————— answers

@@ -80,6 +80,23 @@ const quantityIndexes = new WeakMap<PhaseData, { projectId: Int32Array; built: P
 
 /** One quantity's part of the index of `d` (built on first use; a background build takes them one by one). */
 export function startingQuantityIndex(d: PhaseData, quantity: StartingQuantity): QuantityIndex {
+  return quantityIndexes.get(d)?.built[quantity] ?? drain(quantityIndexSteps(d, quantity))
+}
+
+/** Runs a build made of steps (see `quantityIndexSteps`) to its end, at once. */
+export function drain<T>(steps: Generator<void, T>): T {
+  for (;;) {
+    const r = steps.next()
+    if (r.done) return r.value
+  }
+}
+
+/**
+ * Builds one quantity's part of the index of `d` step by step: it yields after grouping the rows by
+ * basis and after each basis, so a background build can let requests run in between. Kept when
+ * done (the first to finish, if a request built the same part meanwhile).
+ */
+export function* quantityIndexSteps(d: PhaseData, quantity: StartingQuantity): Generator<void, QuantityIndex> {
   let parts = quantityIndexes.get(d)
   if (!parts) quantityIndexes.set(d, (parts = { projectId: Int32Array.from(d.project), built: {} }))
   const done = parts.built[quantity]
@@ -91,9 +108,13 @@ export function startingQuantityIndex(d: PhaseData, quantity: StartingQuantity):
     const b = col.basis[r]!
     if (b >= 0) (lists.get(b) ?? lists.set(b, []).get(b)!).push(r)
   }
+  yield
   const bases = new Map<number, BasisIndex>()
-  for (const [b, list] of lists) bases.set(b, basisIndex(cols, b, Int32Array.from(list), d.n))
-  return (parts.built[quantity] = { cols, bases })
+  for (const [b, list] of lists) {
+    bases.set(b, basisIndex(cols, b, Int32Array.from(list), d.n))
+    yield
+  }
+  return (parts.built[quantity] ??= { cols, bases })
 }
 
 function basisIndex(cols: FactorColumns, basis: number, rows: Int32Array, n: number): BasisIndex {
@@ -447,12 +468,16 @@ const layouts = new WeakMap<PhaseData, Layout>()
 
 /** The app path's layout of `d` (built on first use with the index, kept as long as the phase data is). */
 export function startingLayout(d: PhaseData): Layout {
-  let L = layouts.get(d)
-  if (!L) {
-    L = buildLayout(d, startingIndex(d))
-    layouts.set(d, L)
-  }
-  return L
+  return layouts.get(d) ?? drain(layoutSteps(d))
+}
+
+/** Builds the layout of `d` step by step (yielding before each partition), kept when done as `startingLayout`'s. */
+export function* layoutSteps(d: PhaseData): Generator<void, Layout> {
+  const known = layouts.get(d)
+  if (known) return known
+  const L = yield* buildLayout(d, startingIndex(d))
+  if (!layouts.has(d)) layouts.set(d, L)
+  return layouts.get(d)!
 }
 
 function sameCodes(a: Int32Array, b: Int32Array): boolean {
@@ -461,7 +486,7 @@ function sameCodes(a: Int32Array, b: Int32Array): boolean {
   return true
 }
 
-function buildLayout(d: PhaseData, index: StartingIndex): Layout {
+function* buildLayout(d: PhaseData, index: StartingIndex): Generator<void, Layout> {
   const n = d.n
   const P = d.projects.id.length
   const { codes: yc, years } = yearCodes(d)
@@ -540,6 +565,11 @@ function buildLayout(d: PhaseData, index: StartingIndex): Layout {
     if (g) g.push(quantity)
     else groups.push([quantity])
   }
+  const partitions: Partition[] = []
+  for (const members of groups) {
+    yield
+    partitions.push(partitionLayout(d, index, members, cellOf, C, yc, Y))
+  }
   return {
     cellClass: Int32Array.from(byKey, c => cellClass[c]!),
     cellConfig: Int32Array.from(byKey, c => cellConfig[c]!),
@@ -547,7 +577,7 @@ function buildLayout(d: PhaseData, index: StartingIndex): Layout {
     cellYear: Int32Array.from(byKey, c => cellYear[c]!),
     classOf,
     classProject: Int32Array.from(classProject),
-    partitions: groups.map(members => partitionLayout(d, index, members, cellOf, C, yc, Y)),
+    partitions,
   }
 }
 
