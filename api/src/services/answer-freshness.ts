@@ -124,6 +124,23 @@ export async function freshOrRecent<T>(db: Db, fresh: Promise<T>, recent: () => 
 export const BACKGROUND_SHARE = 0.25
 /** Longest stretch of catching-up work (a merge of the columns) before the requests waiting meanwhile are let in. */
 export const SLICE_MS = 25
+
+/**
+ * For a long loop of catching-up work: `await due()` at its checkpoints lets the requests waiting
+ * meanwhile in, once SLICE_MS have passed since the last time (otherwise it returns at once).
+ */
+export function sliceClock(): () => Promise<void> | undefined {
+  let start = performance.now()
+  return () => {
+    if (performance.now() - start < SLICE_MS) return undefined
+    return new Promise<void>(resolve =>
+      setImmediate(() => {
+        start = performance.now()
+        resolve()
+      }),
+    )
+  }
+}
 export const pauseAfter = (busyMs: number) => new Promise(resolve => setTimeout(resolve, (busyMs * (1 - BACKGROUND_SHARE)) / BACKGROUND_SHARE))
 
 interface BackgroundJob {

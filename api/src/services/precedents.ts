@@ -6,6 +6,7 @@ import { DEFAULT_PRECEDENT_WEIGHTS, type PrecedentMatch, type PrecedentSearchBod
 import { DESIGN_CAUTIONS } from '@shared/schemas/projects'
 import { lateralTons } from '@shared/benchmarks/groups'
 import { historyCache } from './history-cache'
+import { sliceClock } from './answer-freshness'
 import { LB_PER_SHORT_TON } from '@shared/units/constants'
 import { knToKip } from '@shared/units/force'
 import { ftToIn, mToIn } from '@shared/units/length'
@@ -266,12 +267,17 @@ async function readHistory(client: pg.PoolClient, projectIds?: readonly number[]
  * order differs from a full read's, which the ranking does not depend on (ties go by code and
  * frame line, see prepareCandidates).
  */
-function mergeHistory(base: HistoryData, part: HistoryData, changed: ReadonlySet<number>): HistoryData {
+async function mergeHistory(base: HistoryData, part: HistoryData, changed: ReadonlySet<number>): Promise<HistoryData> {
   const kept: number[] = []
   for (let i = 0; i < base.candidates.length; i++) if (!changed.has(base.candidates[i]!.projectId)) kept.push(i)
   const candidates = [...kept.map(i => base.candidates[i]!), ...part.candidates]
   const levels = emptyLevels(candidates)
-  kept.forEach((i, j) => copyLevels(base.levels, i, levels, levels.start[j]!))
+  // Tens of thousands of frames: requests waiting meanwhile are let in (sliceClock).
+  const due = sliceClock()
+  for (let j = 0; j < kept.length; j++) {
+    copyLevels(base.levels, kept[j]!, levels, levels.start[j]!)
+    if ((j & 1023) === 0) await due()
+  }
   part.candidates.forEach((_, i) => copyLevels(part.levels, i, levels, levels.start[kept.length + i]!))
   const finalTonnage = new Map(base.finalTonnage)
   for (const id of changed) finalTonnage.delete(id)
@@ -312,7 +318,7 @@ async function loadHistory(db: Db, base: History | undefined): Promise<History> 
     }
     if (base && changed) {
       report = { version, kind: 'delta', projects: changed.length }
-      return { version, data: mergeHistory(base, await readHistory(client, changed), new Set(changed)) }
+      return { version, data: await mergeHistory(base, await readHistory(client, changed), new Set(changed)) }
     }
     const data = await readHistory(client)
     report = { version, kind: 'full', projects: new Set(data.candidates.map(c => c.projectId)).size }

@@ -3,7 +3,7 @@ import { pairValue, type PairSnapshot } from '@shared/calibration/pairs'
 import type pg from 'pg'
 import type { Db } from '../../db'
 import { calibrationVersion, changedSince, inSnapshot, readVersionIn } from '../../db/calibration'
-import { NotKept, PREVIOUS_KEPT_MS, SLICE_MS, answersMayLag, freshOrRecent, inBackground, inVersion, mayAnswerStale, noteStale, pauseAfter, versionScope } from '../answer-freshness'
+import { NotKept, PREVIOUS_KEPT_MS, answersMayLag, freshOrRecent, inBackground, inVersion, mayAnswerStale, noteStale, pauseAfter, sliceClock, versionScope } from '../answer-freshness'
 import { prepare, preparationSteps } from './derived'
 import { startingIndex } from './starting-index'
 
@@ -248,8 +248,8 @@ export async function loadPhase(db: Db, phase: string): Promise<PhaseData> {
  * and bases numbered by first appearance in that order.
  */
 export async function mergePhase(base: PhaseData, part: PhaseData, changed: ReadonlySet<number>, version: number): Promise<PhaseData> {
-  // A quarter of a million rows take a few hundred ms: requests waiting meanwhile are let in every SLICE_MS.
-  let sliceStart = performance.now()
+  // A quarter of a million rows take a few hundred ms: requests waiting meanwhile are let in (sliceClock).
+  const due = sliceClock()
   const dropProject = new Uint8Array(base.projects.id.length)
   base.projects.id.forEach((id, j) => (dropProject[j] = Number(changed.has(id))))
   let kept = 0
@@ -280,10 +280,7 @@ export async function mergePhase(base: PhaseData, part: PhaseData, changed: Read
   }
   skip()
   for (let o = 0; o < n; o++) {
-    if ((o & 4095) === 0 && performance.now() - sliceStart > SLICE_MS) {
-      await new Promise(resolve => setImmediate(resolve))
-      sliceStart = performance.now()
-    }
+    if ((o & 4095) === 0) await due()
     // The smaller brace id comes first (a brace belongs to one project, so ids never tie).
     const fromPart = i >= base.n || (j < part.n && part.braceId[j]! < base.braceId[i]!)
     const si = fromPart ? 1 : 0
