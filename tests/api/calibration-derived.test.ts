@@ -169,3 +169,19 @@ describe('starting factors on the cell layout equal the reference computation', 
     expect(() => startingAnswerIndexed(d, tables(d, { supplier: ['BS-A'], yearFrom: 2010 }), 0.9, { minGroupSize: 5, habitYears: 5 })).not.toThrow()
   })
 })
+
+describe('the points as Arrow', () => {
+  it('carry names outside ASCII and empty names byte for byte (the dictionary strings are laid out directly)', () => {
+    const d = syntheticPhase(9, 30, 8)
+    const names = ['Bâtiment Ørsted — 東棟', '', 'Quay 7 “north” wing', '🏗 Yard shed']
+    names.forEach((name, j) => (d.projects.name[j] = name))
+    const pts = pointRowsOf(d, {}, 'cmax', 'supplier')
+    const a = tableFromIPC(pointsArrow(pts))
+    const b = tableFromIPC(refPointsArrow(refPointRows(d, {}, 'cmax', 'supplier')))
+    const decoded = Array.from(a.getChild('projectName')!.toArray() as ArrayLike<string>)
+    expect(decoded).toEqual(Array.from(b.getChild('projectName')!.toArray() as ArrayLike<string>))
+    // Each point's name is its project's, looked up directly in the columns.
+    expect(decoded).toEqual(Array.from(pts.rows, r => d.projects.name[d.project[r]!]!))
+    for (const name of names.slice(0, 2)) expect(decoded).toContain(name)
+  })
+})
