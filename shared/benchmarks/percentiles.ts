@@ -27,8 +27,12 @@ export interface Band {
  * are ignored; returns null when none is left. Unit: that of the values.
  */
 export function percentileBand(values: readonly (number | null | undefined)[]): Band | null {
-  const xs = values.filter((v): v is number => typeof v === 'number' && Number.isFinite(v)).sort((a, b) => a - b)
-  if (xs.length === 0) return null
+  const finite: number[] = []
+  for (const v of values) if (typeof v === 'number' && Number.isFinite(v)) finite.push(v)
+  if (finite.length === 0) return null
+  // A typed array sorts numerically without a comparator call per pair: several times faster for
+  // the thousands of projects of a benchmark group.
+  const xs = Array.from(Float64Array.from(finite).sort())
   return {
     n: xs.length,
     p10: quantileSorted(xs, BAND_PERCENTILES.p10),
