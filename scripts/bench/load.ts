@@ -685,11 +685,13 @@ async function main() {
     if (outcomes.length > 1) {
       // What the server's live objects hold: heap after a full collection plus array buffers (the
       // columns and Arrow answers live there, outside the heap). RSS also counts pages V8 keeps.
+      // The array buffers are read every second, not after a collection: under a heavy churn of
+      // point sets they include some not yet freed.
       const live = (o: PhaseOutcome) => o.liveHeap + o.arrayBuffers
       const firstLive = live(outcomes[0]!)
       const lastLive = live(outcomes.at(-1)!)
       const liveGrowth = lastLive - firstLive
-      console.log(`  live memory (heap after the last full GC + array buffers), end of the first phase → end of the last: ${mb(firstLive)} → ${mb(lastLive)} (${liveGrowth > 0 ? '+' : ''}${mb(liveGrowth)})`)
+      console.log(`  live memory (heap after the last full GC + array buffers over the last 10 s, the latter including buffers not yet collected), end of the first phase → end of the last: ${mb(firstLive)} → ${mb(lastLive)} (${liveGrowth > 0 ? '+' : ''}${mb(liveGrowth)})`)
       const first = outcomes[0]!.rssLast
       const last = outcomes.at(-1)!.rssLast
       const growth = last - first
