@@ -5,7 +5,6 @@ import type { Db } from '../../db'
 import { calibrationVersion, changedSince, inSnapshot, readVersionIn } from '../../db/calibration'
 import { NotKept, PREVIOUS_KEPT_MS, answersMayLag, freshOrRecent, inBackground, inVersion, mayAnswerStale, noteStale, pauseAfter, sliceClock, versionScope } from '../answer-freshness'
 import { prepare, preparationSteps } from './derived'
-import { startingIndex } from './starting-index'
 
 /**
  * The calibration pairs of one assumed phase, held in memory as columns (typed arrays and
@@ -593,9 +592,8 @@ export function analyticsReady(db: Db): boolean {
  */
 export async function warmAnalytics(db: Db, log: (message: string) => void = console.error): Promise<void> {
   try {
-    const d = await phaseData(db, DEFAULT_PHASE)
-    prepare(d)
-    startingIndex(d)
+    // Every per-version structure (preparationSteps: the starting-factor index and layout among them).
+    prepare(await phaseData(db, DEFAULT_PHASE))
   } catch (err) {
     log(`analytics warm-up failed: ${err instanceof Error ? err.message : String(err)}`)
   }
