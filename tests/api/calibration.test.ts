@@ -175,6 +175,27 @@ describe('points as Arrow', () => {
   })
 })
 
+describe('points: validators', () => {
+  // RFC 9110 §8.8.3 (ETag), §13.1.2 (If-None-Match → 304 Not Modified, no body).
+  it('the same point set carries the same ETag, a held one is answered 304, gzip and identity differ', async () => {
+    const q = '/api/calibration/points?quantity=beta&groupBy=supplier&sdc=D'
+    const one = await engineer.agent.get(q).set('Accept-Encoding', 'gzip').expect(200)
+    const two = await engineer.agent.get(q).set('Accept-Encoding', 'gzip').expect(200)
+    expect(one.headers.etag).toMatch(/^W\/"[0-9a-f]+-[A-Za-z0-9_-]{27}"$/)
+    expect(two.headers.etag).toBe(one.headers.etag)
+    expect(two.body).toEqual(one.body)
+    const held = await engineer.agent.get(q).set('Accept-Encoding', 'gzip').set('If-None-Match', one.headers.etag!).expect(304)
+    expect(held.text ?? '').toBe('')
+    const plain = await engineer.agent.get(q).set('Accept-Encoding', 'identity').expect(200)
+    expect(plain.headers['content-encoding']).toBeUndefined()
+    expect(plain.headers.etag).not.toBe(one.headers.etag)
+    expect(plain.body).toEqual(one.body)
+    // Another set of points, another tag.
+    const other = await engineer.agent.get('/api/calibration/points?quantity=beta&groupBy=supplier').set('Accept-Encoding', 'gzip').expect(200)
+    expect(other.headers.etag).not.toBe(one.headers.etag)
+  })
+})
+
 describe('the review queue decides what analytics see', () => {
   it('a corrected coupon value brings its brace into the pairs', async () => {
     // demo-data/README.md planted fault (a): NO-2009-006 frame A L2 coupon fysc 3.8 ksi (meant 38) waits in the queue.

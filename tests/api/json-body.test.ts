@@ -2,7 +2,9 @@ import compression from 'compression'
 import express from 'express'
 import request from 'supertest'
 import { describe, expect, it } from 'vitest'
-import { sendCachedJson } from '../../api/src/middleware/json-body'
+import { randomBytes } from 'node:crypto'
+import { gunzipSync } from 'node:zlib'
+import { gzipWhole, sendCachedJson } from '../../api/src/middleware/json-body'
 
 // Bodies of cached answers are serialised and compressed once per answer object (RFC 9110 §8.8.3 ETag,
 // §13.1.2 If-None-Match → 304; RFC 1952 gzip).
@@ -80,5 +82,21 @@ describe('sendCachedJson', () => {
     expect(two.body).toEqual({ v: 2 })
     expect(two.headers.etag).not.toBe(one.headers.etag)
     expect(calls.n).toBe(2)
+  })
+})
+
+// gzipWhole: RFC 1952 members, decoded by Node's own zlib (the reference inflater) byte for byte.
+describe('gzipWhole', () => {
+  it('round-trips bodies that compress, that do not (output larger than its input) and that are empty', async () => {
+    const text = Buffer.from(JSON.stringify(Array.from({ length: 40_000 }, (_, i) => ({ i, label: `brace ${i % 97}` }))))
+    const noise = randomBytes(300_000)
+    for (const body of [text, noise, Buffer.alloc(0), Buffer.from('x')]) {
+      const gz = await gzipWhole(body)
+      expect([gz[0], gz[1]]).toEqual([0x1f, 0x8b])
+      expect(gunzipSync(gz).equals(body)).toBe(true)
+    }
+    // Random bytes do not compress, so the output needs more than the one input-sized buffer.
+    expect((await gzipWhole(noise)).length).toBeGreaterThan(noise.length)
+    expect((await gzipWhole(text)).length).toBeLessThan(text.length / 4)
   })
 })
