@@ -11,7 +11,7 @@ import type pg from 'pg'
 import { pino } from 'pino'
 import { pinoHttp } from 'pino-http'
 import { createPassport } from './auth'
-import { throttleTouch } from './session-store'
+import { readUserWithSession, throttleTouch } from './session-store'
 import { answerFreshness, setAnswerGrace } from './services/answer-freshness'
 import type { Config } from './config'
 import type { Db } from './db'
@@ -102,7 +102,7 @@ export function createApp(options: AppOptions): Express {
     session({
       name: config.sessionCookieName,
       secret: config.sessionSecret,
-      store: throttleTouch(new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: config.env === 'test' ? false : 900 }), 60_000),
+      store: readUserWithSession(throttleTouch(new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: config.env === 'test' ? false : 900 }), 60_000), options.db),
       resave: false,
       saveUninitialized: false,
       rolling: true,

@@ -1,6 +1,8 @@
 import { Passport } from 'passport'
 import { Strategy as LocalStrategy } from 'passport-local'
+import type { Request } from 'express'
 import type { Db } from './db'
+import { userRowOfRequest } from './session-store'
 import { checkPassword } from './services/passwords'
 import { clearSignInFailures, recordFailedSignIn } from './services/sign-in-backoff'
 import { findUserByEmail, findUserById, toUser } from './services/users'
@@ -27,10 +29,11 @@ export function createPassport(db: Db): InstanceType<typeof Passport> {
     }),
   )
   passport.serializeUser((user, done) => done(null, user.id))
-  passport.deserializeUser((id: number, done) => {
-    findUserById(db, id)
-      .then(row => done(null, row && row.active ? toUser(row) : false))
-      .catch(done)
+  passport.deserializeUser((req: Request, id: number, done: (err: unknown, user?: Express.User | false) => void) => {
+    // Usually read in the same query as the session (readUserWithSession).
+    const read = userRowOfRequest(req, id)
+    const row = read !== undefined ? Promise.resolve(read) : findUserById(db, id)
+    row.then(r => done(null, r && r.active ? toUser(r) : false)).catch(done)
   })
   return passport
 }

@@ -5,14 +5,26 @@ import { EngineeringInputError } from '@shared/engineering/errors'
 import { toSizingErrorFields } from '@shared/schemas/sizing'
 import { HttpError } from '../errors'
 
+/**
+ * The driver's error under `err`: Drizzle wraps what node-postgres throws in a DrizzleQueryError
+ * ("Failed query: …") with the original as its `cause`; raw pool queries throw it directly.
+ */
+function driverError(err: unknown): { code?: string; message: string } | null {
+  for (let e = err, depth = 0; e && typeof e === 'object' && depth < 4; e = (e as { cause?: unknown }).cause, depth++) {
+    const code = (e as { code?: unknown }).code
+    if (typeof code === 'string' || (e instanceof Error && !(e as { cause?: unknown }).cause)) return { code: typeof code === 'string' ? code : undefined, message: e instanceof Error ? e.message : '' }
+  }
+  return null
+}
+
 function isDatabaseDown(err: unknown): boolean {
-  const code = (err as { code?: string } | null)?.code
-  const message = err instanceof Error ? err.message : ''
+  const e = driverError(err)
+  if (!e) return false
   return (
-    code === 'ECONNREFUSED' ||
-    code === '57P01' || // admin_shutdown
-    code === '57P03' || // cannot_connect_now
-    /Connection terminated|connection timeout|timeout exceeded when trying to connect/i.test(message)
+    e.code === 'ECONNREFUSED' ||
+    e.code === '57P01' || // admin_shutdown
+    e.code === '57P03' || // cannot_connect_now
+    /Connection terminated|connection timeout|timeout exceeded when trying to connect/i.test(e.message)
   )
 }
 
@@ -46,7 +58,7 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   } else if (err?.type === 'entity.parse.failed') {
     status = 400
     body = { error: { code: 'VALIDATION_FAILED', message: 'The request body is not valid JSON.' } }
-  } else if (err?.code === '23505') {
+  } else if (driverError(err)?.code === '23505') {
     // unique_violation: two requests raced to create the same thing
     status = 409
     body = { error: { code: 'CONFLICT', message: 'That already exists (someone may have just created it).' } }
