@@ -4,7 +4,8 @@ import request from 'supertest'
 import { describe, expect, it } from 'vitest'
 import { randomBytes } from 'node:crypto'
 import { gunzipSync } from 'node:zlib'
-import { gzipWhole, sendCachedJson } from '../../api/src/middleware/json-body'
+import { sendCachedJson } from '../../api/src/middleware/json-body'
+import { gzipWhole } from '../../api/src/services/body-encoding'
 
 // Bodies of cached answers are serialised and compressed once per answer object (RFC 9110 §8.8.3 ETag,
 // §13.1.2 If-None-Match → 304; RFC 1952 gzip).

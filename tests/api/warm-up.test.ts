@@ -1,8 +1,10 @@
+import { gunzipSync } from 'node:zlib'
+import { tableFromIPC } from 'apache-arrow'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { refreshCalibrationPairs } from '../../api/src/db/calibration'
 import { loadBenchmarkProjects } from '../../api/src/services/benchmarks'
 import { analyticsReady, cacheStats } from '../../api/src/services/calibration/store'
-import { calibrationSummary } from '../../api/src/services/calibration/answers'
+import { calibrationSummary, pointsBody } from '../../api/src/services/calibration/answers'
 import { benchmarks } from '../../api/src/services/benchmarks'
 import { BenchmarkQuery } from '@shared/schemas/benchmarks'
 import { CalibrationFilters } from '@shared/schemas/calibration'
@@ -12,6 +14,7 @@ import { openDb } from '../../api/src/db'
 import { createTestApp, type TestApp } from '../helpers/app'
 import { handProject, loadHandProjects } from '../helpers/hand-history'
 import { PrecedentSearchBody } from '@shared/schemas/precedents'
+import { DEFAULT_VIEW_STATE } from '../../dashboard/src/utils/calibration-query'
 
 // Own file: the precedent and benchmark lists are kept per data version in their modules.
 
@@ -48,10 +51,15 @@ describe('server warm-up', () => {
 
   it('leaves the answers the screens open with in the answer cache, and only those', async () => {
     const before = cacheStats(t.db.db)!
-    // 1 options + 1 cost (+ its tonnage) + 1 starting factors + 7 quantities × (trend, misses, 5 groupings) + 2 audiences × 5 groupings × 2 units
-    expect(before.entries).toBe(1 + 2 + 1 + 7 * 7 + 2 * 5 * 2)
+    // 1 options + 1 cost (+ its tonnage) + 1 starting factors + 7 quantities × (trend, misses, 5 groupings)
+    // + the opening view's point set + 2 audiences × 5 groupings × 2 units
+    expect(before.entries).toBe(1 + 2 + 1 + 7 * 7 + 1 + 2 * 5 * 2)
     // An opening answer is served from the cache (no entry added); a filtered one is computed.
     await calibrationSummary(t.db.db, CalibrationFilters.parse({}), 'cmax', 'supplier')
+    // The braces chart as the dashboard first asks for it: its default view, Arrow, gzipped.
+    const opening = DEFAULT_VIEW_STATE
+    const pts = await pointsBody(t.db.db, CalibrationFilters.parse(opening.filters), opening.quantity, opening.groupBy, { arrow: true, gzip: true })
+    expect(tableFromIPC(gunzipSync(pts.body)).numRows).toBeGreaterThan(0)
     await benchmarks(t.db.db, BenchmarkQuery.parse({ groupBy: 'sdc', units: 'si' }), 'bd')
     expect(cacheStats(t.db.db)!.entries).toBe(before.entries)
     await calibrationSummary(t.db.db, CalibrationFilters.parse({ supplier: 'ZZ' }), 'cmax', 'supplier')

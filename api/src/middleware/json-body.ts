@@ -1,7 +1,6 @@
-import { createHash } from 'node:crypto'
-import { promisify } from 'node:util'
-import { gzip as gzipCallback, gzipSync, constants as zlib } from 'node:zlib'
+import { gzipSync, constants as zlib } from 'node:zlib'
 import type { Request, Response } from 'express'
+import { bodyEtag } from '../services/body-encoding'
 
 /**
  * Sends answers that are cached as objects (the analytics answers, kept per data version) without
@@ -14,11 +13,6 @@ interface Encoded {
   json: Buffer
   etag: string
   gzip?: Buffer
-}
-
-/** A weak ETag of the bytes (length and SHA-1), as Express makes one, for bodies kept between requests. */
-export function bodyEtag(body: Uint8Array): string {
-  return `W/"${body.length.toString(16)}-${createHash('sha1').update(body).digest('base64url').slice(0, 27)}"`
 }
 
 const bodies = new WeakMap<object, Encoded>()
@@ -51,18 +45,4 @@ export function sendCachedJson(req: Request, res: Response, answer: object, seri
   // The compression middleware leaves a body that already names its encoding alone.
   res.setHeader('Content-Encoding', 'gzip')
   res.send(e.gzip)
-}
-
-const gzipAsync = promisify(gzipCallback)
-
-/**
- * `body` gzipped at the fastest level in libuv's thread pool, in one piece. Node's zlib otherwise
- * works through the input in 16 kB output chunks and needs a turn of the event loop between two, so
- * on a busy server a megabyte point set took about ten times its compression time to come back
- * (every chunk waiting behind the requests queued meanwhile). An output buffer the size of the input
- * holds the result of anything that compresses at all in a single round; what does not fit takes
- * another round, so nothing is lost either way.
- */
-export function gzipWhole(body: Uint8Array): Promise<Buffer> {
-  return gzipAsync(body, { level: zlib.Z_BEST_SPEED, chunkSize: Math.max(zlib.Z_DEFAULT_CHUNK, body.length) })
 }

@@ -11,12 +11,10 @@ import {
 } from '@shared/schemas/calibration'
 import type { AppDeps } from '../app'
 import { badRequest } from '../errors'
-import { calibrationCost, calibrationMisses, calibrationOptions, calibrationSummary, calibrationTrend, pointRows, startingFactors } from '../services/calibration/answers'
-import { pointsArrow, pointsJson } from '../services/calibration/points'
+import { calibrationCost, calibrationMisses, calibrationOptions, calibrationSummary, calibrationTrend, pointsBody, startingFactors } from '../services/calibration/answers'
 import { getCalibrationSettings, saveCalibrationSettings } from '../services/calibration/settings'
-import { cached } from '../services/calibration/store'
 import { toSafeCsv } from '../services/csv-safe'
-import { bodyEtag, gzipWhole, sendCachedJson } from '../middleware/json-body'
+import { sendCachedJson } from '../middleware/json-body'
 import type { RouteSpec } from './route-table'
 
 const analysts = ['principal', 'engineer'] as const
@@ -79,23 +77,8 @@ export function calibrationRoutes({ db }: AppDeps): RouteSpec[] {
       handler: async (req, res) => {
         const { filters, own } = parseQuery(req, ['quantity', 'groupBy'], QuantityQuery.extend(GroupQuery.shape))
         const arrow = wantsArrow(req)
-        // Point sets run to megabytes: keep the body gzipped once per data version instead of compressing
-        // it on every request (the compression middleware leaves an already-encoded body alone).
         const gzip = req.acceptsEncodings('gzip', 'identity') === 'gzip'
-        const { body, etag } = await cached(
-          db,
-          `points|${arrow ? 'arrow' : 'json'}|${gzip ? 'gzip' : 'identity'}|${JSON.stringify([filters, own])}`,
-          async () => {
-            const pts = await pointRows(db, filters, own.quantity, own.groupBy)
-            const raw = arrow ? Buffer.from(pointsArrow(pts)) : Buffer.from(JSON.stringify(pointsJson(pts)))
-            // Fastest level, as the compression middleware and sendCachedJson use; off the event loop and in
-            // one piece (gzipWhole), since a set of 250,000 points takes ~0.1 s to compress even so. Once per data version.
-            const body = gzip ? await gzipWhole(raw) : raw
-            // Express would otherwise hash the megabytes again for an ETag on every response.
-            return { body, etag: bodyEtag(body) }
-          },
-          b => b.body.length,
-        )
+        const { body, etag } = await pointsBody(db, filters, own.quantity, own.groupBy, { arrow, gzip })
         res.vary('Accept').vary('Accept-Encoding')
         res.setHeader('ETag', etag)
         if (req.fresh) {

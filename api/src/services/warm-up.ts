@@ -1,9 +1,9 @@
 import { setImmediate as nextTurn } from 'node:timers/promises'
 import { BENCHMARK_GROUPINGS, BenchmarkQuery } from '@shared/schemas/benchmarks'
-import { CALIBRATION_GROUPINGS, CALIBRATION_QUANTITIES, CalibrationFilters, MissesQuery, StartingFactorsQuery } from '@shared/schemas/calibration'
+import { CALIBRATION_GROUPINGS, CALIBRATION_QUANTITIES, CalibrationFilters, GroupQuery, MissesQuery, QuantityQuery, StartingFactorsQuery } from '@shared/schemas/calibration'
 import type { Db } from '../db'
 import { benchmarks, loadBenchmarkProjects } from './benchmarks'
-import { calibrationCost, calibrationMisses, calibrationOptions, calibrationSummary, calibrationTrend, startingFactors } from './calibration/answers'
+import { calibrationCost, calibrationMisses, calibrationOptions, calibrationSummary, calibrationTrend, pointsBody, startingFactors } from './calibration/answers'
 import { analyticsReady, onPhaseLoad, warmAnalytics } from './calibration/store'
 import { onPrecedentLoad, warmPrecedents } from './precedents'
 
@@ -39,7 +39,8 @@ export async function warmUp(db: Db, log: Log = console.error): Promise<{ analyt
 
 /**
  * The answers the analytics and benchmark screens open with: no filter, each quantity and grouping
- * their selectors offer, and each audience of the benchmarks. Computed into the answer cache one at a
+ * their selectors offer (the braces chart for the opening view only), and each audience of the
+ * benchmarks. Computed into the answer cache one at a
  * time, yielding to the requests between two, so the first users after a start find them ready and
  * the code that computes the others already compiled. Returns how many answers it computed.
  */
@@ -50,6 +51,12 @@ export async function warmScreens(db: Db): Promise<number> {
     answers.push(() => calibrationTrend(db, filters, quantity), () => calibrationMisses(db, filters, quantity, MissesQuery.parse({})))
     for (const groupBy of CALIBRATION_GROUPINGS) answers.push(() => calibrationSummary(db, filters, quantity, groupBy))
   }
+  // The braces chart of the review's opening view (the API's default quantity and grouping, which the
+  // dashboard opens with), as the dashboard asks for it: Arrow, gzipped. One set only: every quantity
+  // and grouping over the whole history would be a few megabytes each, most of the answer cache.
+  const { quantity } = QuantityQuery.parse({})
+  const { groupBy } = GroupQuery.parse({})
+  answers.push(() => pointsBody(db, filters, quantity, groupBy, { arrow: true, gzip: true }))
   for (const role of ['principal', 'bd'] as const) {
     for (const groupBy of BENCHMARK_GROUPINGS) for (const units of ['us', 'si'] as const) answers.push(() => benchmarks(db, BenchmarkQuery.parse({ groupBy, units }), role))
   }
