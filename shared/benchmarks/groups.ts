@@ -15,7 +15,7 @@ import { KG_PER_TONNE, LB_PER_SHORT_TON } from '../units/constants'
 import { kipToKn } from '../units/force'
 import { in2ToMm2 } from '../units/area'
 import { lbPerFt2ToKgPerM2, lbToKg, shortTonToTonne } from '../units/mass'
-import { percentileBand, type Band } from './percentiles'
+import { bandOfSorted, type Band } from './percentiles'
 
 /**
  * Benchmark groups from per-project figures: pure, so the confidentiality and suppression rules
@@ -113,10 +113,24 @@ function metricsOf(p: BenchmarkProject, units: Units): Record<BenchmarkMetric, n
   return m
 }
 
-/** Percentile bands of every metric over `members`. */
+/**
+ * Percentile bands of every metric over `members`: `percentileBand` of each metric's values, with
+ * the finite values of a metric gathered straight into a typed array and sorted there (no array of
+ * boxed values per metric, no comparator).
+ */
 export function metricBands(members: readonly BenchmarkProject[], units: Units): NonNullable<BenchmarkGroup['metrics']> {
   const rows = members.map(m => metricsOf(m, units))
-  return Object.fromEntries(BENCHMARK_METRICS.map(k => [k, percentileBand(rows.map(r => r[k]))])) as NonNullable<BenchmarkGroup['metrics']>
+  const values = new Float64Array(rows.length)
+  const bands: Partial<Record<BenchmarkMetric, Band | null>> = {}
+  for (const k of BENCHMARK_METRICS) {
+    let n = 0
+    for (let i = 0; i < rows.length; i++) {
+      const v = rows[i]![k]
+      if (v !== null && Number.isFinite(v)) values[n++] = v
+    }
+    bands[k] = n ? bandOfSorted(values.slice(0, n).sort()) : null
+  }
+  return bands as NonNullable<BenchmarkGroup['metrics']>
 }
 
 /**

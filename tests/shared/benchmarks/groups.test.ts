@@ -1,6 +1,8 @@
 import { describe, expect, it } from 'vitest'
-import { buildGroups, lateralTons, projectMetrics, proposalFor, proposalFromGroup, proposalGroup, proposalGroupKey, publishGroup, type BenchmarkProject } from '@shared/benchmarks/groups'
-import { SUPPRESSED_MESSAGE } from '@shared/schemas/benchmarks'
+import { buildGroups, lateralTons, metricBands, projectMetrics, proposalFor, proposalFromGroup, proposalGroup, proposalGroupKey, publishGroup, type BenchmarkProject } from '@shared/benchmarks/groups'
+import { BENCHMARK_METRICS, SUPPRESSED_MESSAGE } from '@shared/schemas/benchmarks'
+import { percentileBand } from '@shared/benchmarks/percentiles'
+import { rng } from '../../../scripts/bench/synthetic'
 
 function project(over: Partial<BenchmarkProject> = {}): BenchmarkProject {
   return {
@@ -139,5 +141,42 @@ describe('proposalFor', () => {
     const r = proposalFor(office.slice(0, 4), { use: 'office', stories: 2, floorArea: 1000, units: 'us' })
     expect(r.group).toBeNull()
     expect(r.expectedLateral).toBeNull()
+  })
+})
+
+// metricBands gathers each metric's finite values into a typed array; it must give exactly what
+// percentileBand (tested against hand-worked type-7 values in percentiles.test.ts) gives on the
+// metric's values as they are, missing ones included.
+describe('metricBands', () => {
+  it('equals percentileBand of each metric, for random groups with missing figures and ties', () => {
+    const rand = rng(2024)
+    const pick = <T>(xs: readonly T[]) => xs[Math.floor(rand() * xs.length)]!
+    const maybe = <T>(v: T) => (rand() < 0.15 ? null : v)
+    let bands = 0
+    for (const n of [0, 1, 2, 9, 300]) {
+      const members = Array.from({ length: n }, (_, i) =>
+        project({
+          code: `P-${i}`,
+          stories: maybe(1 + Math.floor(rand() * 25)),
+          floorAreaFt2: maybe(pick([20_000, 40_000, 40_000, 55_000 + Math.round(rand() * 1e5)])),
+          frames: 1 + Math.floor(rand() * 6),
+          baseShearKip: maybe(Math.round(rand() * 20) * 100),
+          totalCoreAreaIn2: maybe(Math.round(rand() * 50) * 10),
+          tonnage: {
+            preliminary: rand() < 0.2 ? {} : { lateral_total: Math.round(rand() * 40) + 10, structural_total: Math.round(rand() * 300) + 50 },
+            final: rand() < 0.15 ? { braces: 3 } : { lateral_total: Math.round(rand() * 40) + 10, structural_total: Math.round(rand() * 300) + 50, braces: Math.round(rand() * 10) },
+          },
+        }),
+      )
+      for (const units of ['us', 'si'] as const) {
+        const got = metricBands(members, units)
+        for (const k of BENCHMARK_METRICS) {
+          const want = percentileBand(members.map(m => projectMetrics(m, units)[k]))
+          expect(got[k], `${n} projects, ${units}, ${k}`).toEqual(want)
+          if (want) bands++
+        }
+      }
+    }
+    expect(bands).toBeGreaterThan(40) // not vacuous: most metrics of most groups have figures
   })
 })
