@@ -71,13 +71,11 @@ const C = Object.fromEntries(ROW_COLUMNS.map((c, i) => [c, i])) as Record<(typeo
 const PROJECT_COLUMNS = ['project_id', 'project_code', 'project_name', 'supplier_code', 'office', 'building_use', 'sdc', 'aisc341_edition', 'stories', 'year_designed', 'year_completed'] as const
 const BATCH = 50_000
 
-class DictBuilder {
+/** Labels numbered in order of first appearance: `values[code(v)] === v`. */
+class Labels {
   private index = new Map<string, number>()
-  values: string[] = []
-  codes: Int32Array
-  constructor(n: number) {
-    this.codes = new Int32Array(n)
-  }
+  /** `values`: an array to number into (a quantity's `bases`), empty. */
+  constructor(readonly values: string[] = []) {}
   code(v: string): number {
     let c = this.index.get(v)
     if (c === undefined) {
@@ -86,6 +84,15 @@ class DictBuilder {
       this.index.set(v, c)
     }
     return c
+  }
+}
+
+/** A dictionary-coded column of `n` rows: `values[codes[i]]` is row i's label. */
+class DictBuilder extends Labels {
+  codes: Int32Array
+  constructor(n: number) {
+    super()
+    this.codes = new Int32Array(n)
   }
   set(i: number, v: string) {
     this.codes[i] = this.code(v)
@@ -146,7 +153,7 @@ async function buildColumns(phase: string, version: number, count: number, proje
   const q = Object.fromEntries(
     CALIBRATION_QUANTITIES.map(k => [k, { assumed: new Float64Array(count).fill(NaN), final: new Float64Array(count).fill(NaN), basis: new Int32Array(count).fill(-1), bases: [] as string[] }]),
   ) as Record<CalibrationQuantity, QuantityColumns>
-  const basisIndex = Object.fromEntries(CALIBRATION_QUANTITIES.map(k => [k, new Map<string, number>()])) as Record<CalibrationQuantity, Map<string, number>>
+  const basisLabels = Object.fromEntries(CALIBRATION_QUANTITIES.map(k => [k, new Labels(q[k].bases)])) as Record<CalibrationQuantity, Labels>
   const projects = emptyProjects()
   const projectIndex = new Map<number, number>()
 
@@ -176,15 +183,9 @@ async function buildColumns(phase: string, version: number, count: number, proje
         const v = pairValue(pair, k)
         if (!v) continue
         const col = q[k]
-        let b = basisIndex[k].get(v.basis)
-        if (b === undefined) {
-          b = col.bases.length
-          col.bases.push(v.basis)
-          basisIndex[k].set(v.basis, b)
-        }
         col.assumed[i] = v.assumed
         col.final[i] = v.final
-        col.basis[i] = b
+        col.basis[i] = basisLabels[k].code(v.basis)
       }
       i++
     }
@@ -270,7 +271,7 @@ export async function mergePhase(base: PhaseData, part: PhaseData, changed: Read
   const q = Object.fromEntries(
     CALIBRATION_QUANTITIES.map(k => [k, { assumed: new Float64Array(n), final: new Float64Array(n), basis: new Int32Array(n), bases: [] as string[] }]),
   ) as Record<CalibrationQuantity, QuantityColumns>
-  const bases = CALIBRATION_QUANTITIES.map(k => ({ k, index: new Map<string, number>(), maps: sources.map(s => new Int32Array(s.q[k].bases.length).fill(-1)) }))
+  const bases = CALIBRATION_QUANTITIES.map(k => ({ k, labels: new Labels(q[k].bases), maps: sources.map(s => new Int32Array(s.q[k].bases.length).fill(-1)) }))
 
   let i = 0 // next row of base
   let j = 0 // next row of part
@@ -314,16 +315,7 @@ export async function mergePhase(base: PhaseData, part: PhaseData, changed: Read
         continue
       }
       let m = b.maps[si]![c]!
-      if (m < 0) {
-        const label = from.bases[c]!
-        m = b.index.get(label) ?? -1
-        if (m < 0) {
-          m = to.bases.length
-          to.bases.push(label)
-          b.index.set(label, m)
-        }
-        b.maps[si]![c] = m
-      }
+      if (m < 0) b.maps[si]![c] = m = b.labels.code(from.bases[c]!)
       to.basis[o] = m
     }
     if (!fromPart) skip()
