@@ -19,7 +19,7 @@ import { getSizingDefaults } from '../settings'
 import { getCalibrationSettings } from './settings'
 import { costAnswer, missesAnswer, pointRowsOf, startingAnswer, summaryAnswer, trendAnswer, type PointRows } from './derived'
 import { pointsArrow, pointsJson } from './points'
-import { cached, jsonBytes, phaseData, READS_DATABASE } from './store'
+import { cached, cachedWith, jsonBytes, phaseData, READS_DATABASE } from './store'
 
 /*
  * The analytics answers: each is computed once per data version and query (the answer cache of
@@ -65,9 +65,8 @@ const key = (name: string, ...parts: unknown[]) => `${name}|${JSON.stringify(par
 
 /** GET /api/calibration/options */
 export async function calibrationOptions(db: Db): Promise<CalibrationOptions> {
-  const settings = await getCalibrationSettings(db)
-  const sizing = await getSizingDefaults(db)
-  return cached(db, key('options', settings, sizing.stiffnessTolerance), async () => {
+  const read = Promise.all([getCalibrationSettings(db), getSizingDefaults(db)])
+  return cachedWith(db, read, ([settings, sizing]) => key('options', settings, sizing.stiffnessTolerance), async ([settings, sizing]) => {
     const [row] = (
       await poolOf(db).query(`
         with p as (select distinct project_id, supplier_code, building_use, sdc, aisc341_edition, office, stories, year_designed from calibration_pairs where phase = 'sd')
@@ -102,8 +101,12 @@ export async function calibrationOptions(db: Db): Promise<CalibrationOptions> {
 
 /** GET /api/calibration/summary */
 export async function calibrationSummary(db: Db, filters: CalibrationFilters, quantity: CalibrationQuantity, groupBy: CalibrationGrouping): Promise<CalibrationSummary> {
-  const tolerance = (await getSizingDefaults(db)).stiffnessTolerance
-  return cached(db, key('summary', filters, quantity, groupBy, tolerance), async () => summaryAnswer(await phaseData(db, filters.phase), filters, quantity, groupBy, tolerance))
+  return cachedWith(
+    db,
+    getSizingDefaults(db).then(s => s.stiffnessTolerance),
+    tolerance => key('summary', filters, quantity, groupBy, tolerance),
+    async tolerance => summaryAnswer(await phaseData(db, filters.phase), filters, quantity, groupBy, tolerance),
+  )
 }
 
 /** GET /api/calibration/trend — by year designed and basis. */
@@ -113,8 +116,12 @@ export async function calibrationTrend(db: Db, filters: CalibrationFilters, quan
 
 /** Misses: strength-side quantities, braces whose final exceeded the assumption; the stiffness factor, braces outside the band. */
 export async function calibrationMisses(db: Db, filters: CalibrationFilters, quantity: CalibrationQuantity, q: { sort: (typeof MISS_SORTS)[number]; dir: 'asc' | 'desc'; limit: number }): Promise<CalibrationMiss[]> {
-  const tolerance = (await getSizingDefaults(db)).stiffnessTolerance
-  return cached(db, key('misses', filters, quantity, q, tolerance), async () => missesAnswer(await phaseData(db, filters.phase), filters, quantity, q, tolerance))
+  return cachedWith(
+    db,
+    getSizingDefaults(db).then(s => s.stiffnessTolerance),
+    tolerance => key('misses', filters, quantity, q, tolerance),
+    async tolerance => missesAnswer(await phaseData(db, filters.phase), filters, quantity, q, tolerance),
+  )
 }
 
 async function tonnageByProject(db: Db): Promise<Map<number, { preliminary: TonnageByCategory; final: TonnageByCategory }>> {
@@ -141,8 +148,7 @@ export async function calibrationCost(db: Db, filters: CalibrationFilters): Prom
 
 /** GET /api/starting-factors */
 export async function startingFactors(db: Db, query: StartingFactorsQuery): Promise<StartingFactors> {
-  const settings = await getCalibrationSettings(db)
-  return cached(db, key('starting', query, settings), async () => {
+  return cachedWith(db, getCalibrationSettings(db), settings => key('starting', query, settings), async settings => {
     const { suggestions, backtest: backtests } = startingAnswer(await phaseData(db, 'sd'), query, settings)
     const over = suggestions.find(s => s.quantity === 'overstrength')
     const sizing = await getSizingDefaults(db)

@@ -602,7 +602,29 @@ export const jsonBytes = (v: unknown): number => 2 * (JSON.stringify(v)?.length 
  * previous version's (see answer-freshness.ts).
  */
 export async function cached<T>(db: Db, key: string, compute: (version: number) => Promise<T>, bytesOf: (v: T) => number = jsonBytes, options: { readsDatabase?: boolean } = {}): Promise<T> {
-  const s = await storeFor(db)
+  return cachedIn(await storeFor(db), db, key, compute, bytesOf, options)
+}
+
+/**
+ * `cached` for an answer whose key depends on `first` (a read of the firm's settings, started by
+ * the caller): `first` and the data version are read at the same time, so the request waits for one
+ * round trip to the database instead of two one after the other (under load each waits for a turn
+ * of the event loop on its way back). Both reads were sent after the call, as `cached`'s own. If the
+ * version moved on while `first` was read, the answer is of the newer version.
+ */
+export async function cachedWith<A, T>(
+  db: Db,
+  first: Promise<A>,
+  key: (a: A) => string,
+  compute: (a: A, version: number) => Promise<T>,
+  bytesOf: (v: T) => number = jsonBytes,
+  options: { readsDatabase?: boolean } = {},
+): Promise<T> {
+  const [a, s] = await Promise.all([first, storeFor(db)])
+  return cachedIn(s.retired ? await storeFor(db) : s, db, key(a), version => compute(a, version), bytesOf, options)
+}
+
+async function cachedIn<T>(s: Store, db: Db, key: string, compute: (version: number) => Promise<T>, bytesOf: (v: T) => number, options: { readsDatabase?: boolean }): Promise<T> {
   let entry = s.cache.get(key)
   // A previous version's answer that queries the database itself would be of the newest data: not computed.
   if (!entry && s.retired && options.readsDatabase) throw new NotKept('This answer')
