@@ -1,9 +1,10 @@
 import { describe, expect, it } from 'vitest'
 import { STARTING_QUANTITIES } from '@shared/schemas/calibration'
 import { backtest, quantileOfSorted, suggestStarting, type FactorColumns } from '@shared/calibration'
-import { backtestIndexed, drain, groupSortedFinals, quantileBy, quantityIndexSteps, startingIndex, startingQuantityIndex } from '../../api/src/services/calibration/starting-index'
+import { backtestIndexed, drain, groupSortedFinals, layoutSteps, quantileBy, quantityIndexSteps, startingIndex, startingLayout, startingQuantityIndex } from '../../api/src/services/calibration/starting-index'
 import type { PhaseData } from '../../api/src/services/calibration/store'
 import { rng } from '../../scripts/bench/synthetic'
+import { syntheticPhase } from '../../scripts/bench/synthetic-phase'
 
 // The starting-factor answers worked out on the per-version index (sorted firm rows, Fenwick
 // order statistics for the back-test's growing pools) must equal, value for value, what the
@@ -106,6 +107,19 @@ describe('the index built step by step (as a background build does)', () => {
       expect(Array.from(a.finalValues)).toEqual(Array.from(o.finalValues))
       expect(Array.from(a.firmProjectsAt)).toEqual(Array.from(o.firmProjectsAt))
     }
+  })
+
+  it('builds the layout in parts: before each partition, after its canonical order, after each member and after its runs', () => {
+    const d = syntheticPhase(6, 60)
+    const steps = layoutSteps(d)
+    let yields = 0
+    let r = steps.next()
+    for (; !r.done; r = steps.next()) yields++
+    const parts = r.value.partitions
+    expect(parts.length).toBeGreaterThan(0)
+    expect(yields).toBe(parts.reduce((n, p) => n + 1 + 1 + p.Q + 1, 0))
+    // The layout a request asks for afterwards is the one the steps built.
+    expect(startingLayout(d)).toBe(r.value)
   })
 
   it('keeps the part a request built while the background build was half way, and that one only', () => {

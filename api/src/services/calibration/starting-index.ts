@@ -568,7 +568,7 @@ function* buildLayout(d: PhaseData, index: StartingIndex): Generator<void, Layou
   const partitions: Partition[] = []
   for (const members of groups) {
     yield
-    partitions.push(partitionLayout(d, index, members, cellOf, C, yc, Y))
+    partitions.push(yield* partitionLayout(d, index, members, cellOf, C, yc, Y))
   }
   return {
     cellClass: Int32Array.from(byKey, c => cellClass[c]!),
@@ -581,7 +581,12 @@ function* buildLayout(d: PhaseData, index: StartingIndex): Generator<void, Layou
   }
 }
 
-function partitionLayout(d: PhaseData, index: StartingIndex, members: StartingQuantity[], cellOf: Int32Array, C: number, yc: Int32Array, Y: number): Partition {
+/**
+ * One partition's layout, in parts (a yield after the canonical order, after each member's ranks
+ * and columns, and after the runs): at 250,000 rows and four members the whole took about a third
+ * of a second, too long a stretch for the event loop in a background build.
+ */
+function* partitionLayout(d: PhaseData, index: StartingIndex, members: StartingQuantity[], cellOf: Int32Array, C: number, yc: Int32Array, Y: number): Generator<void, Partition> {
   const n = d.n
   const Q = members.length
   const basis = d.q[members[0]!].basis
@@ -601,6 +606,7 @@ function partitionLayout(d: PhaseData, index: StartingIndex, members: StartingQu
     for (let y = 0; y <= Y; y++) canonYearAt[b * (Y + 1) + y] = canonicalAt[b]! + at[y]!
     for (let i = 0; i < ix.rows.length; i++) canonOf[ix.rows[i]!] = canonicalAt[b]! + at[yc[ix.rows[i]!]!]!++
   }
+  yield
   // Per member: ranks by row (one numbering over members and bases), canonical columns.
   const finalAt = new Int32Array(Q * (nb + 1))
   const assumedAt = new Int32Array(Q * (nb + 1))
@@ -642,6 +648,7 @@ function partitionLayout(d: PhaseData, index: StartingIndex, members: StartingQu
       c.habitUnder[pos] = f > a ? 1 : 0
     }
     canon.push(c)
+    yield
   }
   // Runs (basis, cell): a stable counting sort of the rows on a basis.
   const runAt = new Int32Array(C * nb + 1)
@@ -654,6 +661,7 @@ function partitionLayout(d: PhaseData, index: StartingIndex, members: StartingQu
     if (r < runFirst[k]!) runFirst[k] = r
   }
   for (let k = 0; k < C * nb; k++) runAt[k + 1]! += runAt[k]!
+  yield
   const fill = runAt.slice(0, C * nb)
   const project = new Int32Array(N)
   const bucket = new Int32Array(N)
