@@ -5,10 +5,13 @@
  * process id the benchmark samples is the server itself. Prints `listening <port>` once it listens,
  * then every second `memory <rss> <heapUsed> <arrayBuffers>` (bytes, process.memoryUsage) and after
  * each full (mark-compact) collection `gc-major <heapUsed>`: the heap the server's live objects hold,
- * which RSS (V8 keeps freed pages) does not show. SIGTERM closes it. Not a way to run the product:
+ * which RSS (V8 keeps freed pages) does not show. Also every second `wait <loopMs> <poolWaiting>`:
+ * the longest event-loop delay of that second (ms) and the most requests waiting for a database
+ * connection in it (sampled every 20 ms), which tell a stall of the event loop from one of the
+ * database. SIGTERM closes it. Not a way to run the product:
  * `npm start` is.
  */
-import { constants, PerformanceObserver } from 'node:perf_hooks'
+import { constants, monitorEventLoopDelay, PerformanceObserver } from 'node:perf_hooks'
 import { createApp } from '../../api/src/app'
 import { loadConfig } from '../../api/src/config'
 import { openDb } from '../../api/src/db'
@@ -27,9 +30,16 @@ async function main() {
   })
   const addr = server.address()
   console.log(`listening ${typeof addr === 'object' && addr ? addr.port : config.port}`)
+  const loop = monitorEventLoopDelay({ resolution: 10 })
+  loop.enable()
+  let poolWaiting = 0
+  setInterval(() => (poolWaiting = Math.max(poolWaiting, pool.waitingCount)), 20).unref()
   setInterval(() => {
     const m = process.memoryUsage()
     console.log(`memory ${m.rss} ${m.heapUsed} ${m.arrayBuffers}`)
+    console.log(`wait ${(loop.max / 1e6).toFixed(1)} ${poolWaiting}`)
+    loop.reset()
+    poolWaiting = 0
   }, 1000).unref()
   new PerformanceObserver(list => {
     for (const e of list.getEntries()) if (((e as unknown as { detail?: { kind?: number } }).detail)?.kind === constants.NODE_PERFORMANCE_GC_MAJOR) console.log(`gc-major ${process.memoryUsage().heapUsed}`)

@@ -129,6 +129,8 @@ interface Server {
   memory: MemorySample[]
   /** Heap used right after each full collection: what the live objects hold. */
   fullGcs: { at: number; heap: number }[]
+  /** Per second: the longest event-loop delay (ms) and the most requests waiting for a database connection. */
+  waits: { at: number; loopMs: number; poolWaiting: number }[]
   stop: () => Promise<void>
 }
 
@@ -152,12 +154,14 @@ async function startServer(env: NodeJS.ProcessEnv, logFile: string): Promise<Ser
   child.stderr!.pipe(log, { end: false })
   const memory: MemorySample[] = []
   const fullGcs: Server['fullGcs'] = []
+  const waits: Server['waits'] = []
   const listening = new Promise<void>((ok, fail) => {
     const lines = createInterface({ input: child.stdout! })
     lines.on('line', line => {
       const [what, ...values] = line.split(' ')
       const n = values.map(Number)
       if (what === 'memory') return void memory.push({ at: performance.now(), heap: n[1]! / 1024, arrayBuffers: n[2]! / 1024 })
+      if (what === 'wait') return void waits.push({ at: performance.now(), loopMs: n[0]!, poolWaiting: n[1]! })
       if (what === 'gc-major') return void fullGcs.push({ at: performance.now(), heap: n[0]! / 1024 })
       log.write(`${line}\n`)
       if (line.startsWith('listening ')) ok()
@@ -171,6 +175,7 @@ async function startServer(env: NodeJS.ProcessEnv, logFile: string): Promise<Ser
     port,
     memory,
     fullGcs,
+    waits,
     stop: () =>
       new Promise<void>(done => {
         if (child.exitCode !== null || child.signalCode !== null) return done()
@@ -375,6 +380,11 @@ async function runPhase(ctx: PhaseContext, phase: Phase, upload: string): Promis
   let nBiz = 0
   const samples: Sample[] = []
   const failures = new Map<string, number>()
+  // The server's readings covering phase second t (each covers the second before it arrives).
+  const waitsIn = (t: number) => {
+    const ws = server.waits.filter(w => w.at - runStart > t * 1000 && w.at - runStart < (t + 2) * 1000)
+    return ws.length ? `${ms(Math.max(...ws.map(w => w.loopMs)))}, ${Math.max(...ws.map(w => w.poolWaiting))}` : '—'
+  }
   const requests: CannonRequest[] = [
     {
       setupRequest: (req, context) => {
@@ -507,24 +517,24 @@ async function runPhase(ctx: PhaseContext, phase: Phase, upload: string): Promis
     console.log(`  after it finished: ${after.length ? p(after) : '(finished after the load ended)'}`)
     if (imp.uploadedAt !== undefined) {
       // Second by second around the import: what the loader's run and the rebuilds after it cost.
-      console.log('  per second around it:  req/s    p95         max       answered from the version before')
+      console.log('  per second around it:  req/s    p95         max       answered from the version before   server: loop delay max, requests waiting for a db connection')
       const from = Math.max(0, Math.floor(imp.uploadedAt) - 2)
       const to = Math.min(Math.ceil(runEnd), Math.ceil(imp.finishedAt ?? runEnd) + 8)
       for (let t = from; t < to; t++) {
         const xs = samples.filter(s => s.at >= t && s.at < t + 1)
         const ts = xs.map(s => s.ms)
         const mark = t <= imp.uploadedAt && imp.uploadedAt < t + 1 ? ' ← upload' : imp.finishedAt !== undefined && t <= imp.finishedAt && imp.finishedAt < t + 1 ? ' ← run seen finished' : ''
-        console.log(`    ${`${t}–${t + 1} s`.padEnd(10)} ${String(xs.length).padStart(9)} ${ms(pct(ts, 0.95)).padStart(11)} ${ms(ts.length ? Math.max(...ts) : NaN).padStart(11)}   ${String(xs.filter(s => s.stale).length).padStart(5)}${mark}`)
+        console.log(`    ${`${t}–${t + 1} s`.padEnd(10)} ${String(xs.length).padStart(9)} ${ms(pct(ts, 0.95)).padStart(11)} ${ms(ts.length ? Math.max(...ts) : NaN).padStart(11)}   ${String(xs.filter(s => s.stale).length).padStart(5)}${waitsIn(t).padStart(42)}${mark}`)
       }
     }
   }
   console.log(`answers from the data version before the newest (served while it was built): ${samples.filter(s => s.stale).length} of ${samples.length}`)
 
   // The first seconds of the phase: after a server start, every answer is asked for the first time.
-  console.log('\nfirst 10 s, second by second:  req/s    p95         max')
+  console.log('\nfirst 10 s, second by second:  req/s    p95         max     server: loop delay max, requests waiting for a db connection')
   for (let t = 0; t < Math.min(10, runEnd); t++) {
     const ts = samples.filter(s => s.at >= t && s.at < t + 1).map(s => s.ms)
-    console.log(`    ${`${t}–${t + 1} s`.padEnd(10)} ${String(ts.length).padStart(18)} ${ms(pct(ts, 0.95)).padStart(11)} ${ms(ts.length ? Math.max(...ts) : NaN).padStart(11)}`)
+    console.log(`    ${`${t}–${t + 1} s`.padEnd(10)} ${String(ts.length).padStart(18)} ${ms(pct(ts, 0.95)).padStart(11)} ${ms(ts.length ? Math.max(...ts) : NaN).padStart(11)}${waitsIn(t).padStart(30)}`)
   }
 
   // Memory in the window: RSS from /proc; the heap after the window's last full collection (what
