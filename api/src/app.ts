@@ -72,9 +72,10 @@ export function createApp(options: AppOptions): Express {
   const app = express()
   app.disable('x-powered-by')
   app.set('trust proxy', 'loopback')
+  const logger = pino({ level: config.env === 'test' ? 'silent' : config.logLevel })
   app.use(
     pinoHttp({
-      logger: pino({ level: config.env === 'test' ? 'silent' : config.logLevel }),
+      logger,
       autoLogging: { ignore: req => !req.url?.startsWith('/api') },
       redact: ['req.headers.cookie', 'req.headers["x-csrf-token"]', 'res.headers["set-cookie"]'],
     }),
@@ -102,7 +103,10 @@ export function createApp(options: AppOptions): Express {
     session({
       name: config.sessionCookieName,
       secret: config.sessionSecret,
-      store: readUserWithSession(throttleTouch(new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: config.env === 'test' ? false : 900 }), 60_000), options.db),
+      store: readUserWithSession(
+        throttleTouch(new PgStore({ pool, tableName: 'session', createTableIfMissing: false, pruneSessionInterval: config.env === 'test' ? false : 900 }), 60_000, err => logger.warn({ err }, 'session expiry not extended')),
+        options.db,
+      ),
       resave: false,
       saveUninitialized: false,
       rolling: true,

@@ -15,8 +15,13 @@ const REMEMBERED = 10_000
  * a minute; writing its expiry back on each costs an UPDATE per request for a 12-hour window that
  * moves by seconds. The stored expiry lags the cookie's by at most `intervalMs`. A destroyed
  * session is forgotten, so a new session under the same id is touched at once.
+ *
+ * The response does not wait for the UPDATE (express-session holds it back until the touch calls
+ * back): the touch is reported done at once and written meanwhile. A touch that fails is passed to
+ * `onError` and forgotten, so the session's next request tries again; at worst the stored expiry
+ * lags by one more interval, well inside the 12 hours.
  */
-export function throttleTouch<S extends Store>(store: S, intervalMs: number): S {
+export function throttleTouch<S extends Store>(store: S, intervalMs: number, onError: (err: unknown) => void = () => {}): S {
   const touch = store.touch?.bind(store)
   if (!touch) return store
   const last = new Map<string, number>()
@@ -30,7 +35,14 @@ export function throttleTouch<S extends Store>(store: S, intervalMs: number): S 
     last.delete(sid)
     last.set(sid, now)
     if (last.size > REMEMBERED) last.delete(last.keys().next().value!)
-    touch(sid, session, callback)
+    // Stores call back with the error, though express-session's type says no argument.
+    const done = (err?: unknown) => {
+      if (!err) return
+      if (last.get(sid) === now) last.delete(sid)
+      onError(err)
+    }
+    touch(sid, session, done as () => void)
+    callback?.()
   }
   const destroy = store.destroy.bind(store)
   store.destroy = (sid, callback) => {

@@ -32,4 +32,31 @@ describe('throttleTouch', () => {
     expect(done).toHaveBeenCalledTimes(6)
     now.mockRestore()
   })
+
+  it('calls back before the store has written the expiry, and tries again after a failed write', () => {
+    const store = new session.MemoryStore()
+    const pending: ((err?: unknown) => void)[] = []
+    store.touch = ((_sid: string, _s: session.SessionData, cb?: (err?: unknown) => void) => void pending.push(cb!)) as typeof store.touch
+    const failures: unknown[] = []
+    throttleTouch(store, 60_000, err => failures.push(err))
+    const now = vi.spyOn(Date, 'now').mockReturnValue(2_000_000)
+    const sess = { cookie: new session.Cookie() } as session.SessionData
+    const done = vi.fn()
+    store.touch('a', sess, done)
+    // The write is still out; the response need not wait for it.
+    expect(pending).toHaveLength(1)
+    expect(done).toHaveBeenCalledTimes(1)
+    pending[0]!(new Error('database gone'))
+    expect(failures).toHaveLength(1)
+    // Forgotten: the next request within the interval writes it again.
+    now.mockReturnValue(2_000_000 + 1_000)
+    store.touch('a', sess, done)
+    expect(pending).toHaveLength(2)
+    pending[1]!()
+    store.touch('a', sess, done)
+    expect(pending).toHaveLength(2)
+    expect(failures).toHaveLength(1)
+    expect(done).toHaveBeenCalledTimes(3)
+    now.mockRestore()
+  })
 })
