@@ -3,8 +3,7 @@ import type { Request } from 'express'
 import type { SessionData, Store } from 'express-session'
 import type { Db } from './db'
 import { session, users } from './db/schema'
-
-type UserRow = typeof users.$inferSelect
+import type { UserRow } from './services/users'
 
 /** Sessions whose last touch is remembered (the oldest are forgotten first; a forgotten one is touched again). */
 const REMEMBERED = 10_000

@@ -8,7 +8,7 @@ import { auditLog, session, users, userTokens } from '../db/schema'
 import { conflict, notFound } from '../errors'
 import { hashPassword } from './passwords'
 
-type UserRow = typeof users.$inferSelect
+export type UserRow = typeof users.$inferSelect
 
 export const INVITE_HOURS = 72
 export const RESET_MINUTES = 60
