@@ -466,62 +466,65 @@ export function pointRowsOf(data: PhaseData, filters: Partial<CalibrationFilters
 export function summaryAnswer(d: PhaseData, filters: Partial<CalibrationFilters>, quantity: CalibrationQuantity, groupBy: CalibrationGrouping, tolerance: number): CalibrationSummary {
   const t = tables(d, filters)
   const col = d.q[quantity]
-  const ratio = ratios(d, quantity)
   const labels = groupCodes(d, groupBy)
   const nb = col.bases.length
-  const basis = col.basis
-  // (group, basis) slots and bases in order of first appearance over the rows; counts; min / max.
-  const slot = new Int32Array(labels.values.length * nb).fill(-1)
-  const slotKey: number[] = []
-  const slotN: number[] = []
+  // One pass over the rows that pass, in ratio order (the sorted view): counts and the first row
+  // (lowest row number) of each (group, basis) slot and of each basis, min / max.
+  const v = sortedView(d, quantity)
+  const pos = passing(v, t)
+  const vb = v.basis
+  const vr = v.ratio
+  const vrow = v.rows
+  const groupOf = labels.byProject ?? labels.byConfig
+  const groupKey = labels.byProject ? v.project : v.config
+  const G = labels.values.length * nb
+  const gkN = new Int32Array(G)
+  const gkFirst = new Int32Array(G).fill(0x7fffffff)
   const basisN = new Int32Array(nb)
-  const basisOrder: number[] = []
+  const basisFirst = new Int32Array(nb).fill(0x7fffffff)
   let min = Infinity
   let max = -Infinity
-  const { projectOk, configOk, core, lo, hi } = t
-  const project = d.project
-  const cfg = d.configuration.codes
-  const area = d.finalCoreArea
-  for (let r = 0; r < d.n; r++) {
-    const b = basis[r]!
-    if (b < 0 || !projectOk[project[r]!] || !configOk[cfg[r]!] || (core && !(area[r]! >= lo && area[r]! <= hi))) continue
-    const gk = labels.codes[r]! * nb + b
-    let s = slot[gk]!
-    if (s < 0) {
-      s = slot[gk] = slotKey.length
-      slotKey.push(gk)
-      slotN.push(0)
-    }
-    slotN[s]!++
-    if (basisN[b]!++ === 0) basisOrder.push(b)
-    const v = ratio[r]!
-    if (v < min) min = v
-    if (v > max) max = v
+  for (let k = 0; k < pos.length; k++) {
+    const i = pos[k]!
+    const b = vb[i]!
+    const gk = (groupOf ? groupOf[groupKey[i]!]! : 0) * nb + b
+    const r = vrow[i]!
+    gkN[gk]!++
+    if (r < gkFirst[gk]!) gkFirst[gk] = r
+    basisN[b]!++
+    if (r < basisFirst[b]!) basisFirst[b] = r
+    const x = vr[i]!
+    if (x < min) min = x
+    if (x > max) max = x
   }
   const side = QUANTITY_INFO[quantity].side
-  if (!slotKey.length) return { quantity, side, tolerance, groups: [], overall: [] }
-  // Each slot's and each basis's ratios, sorted: one pass over the rows in ratio order.
+  if (!pos.length) return { quantity, side, tolerance, groups: [], overall: [] }
+  // Slots and bases in order of first appearance over the rows (the order ties keep below).
+  const slotKey: number[] = []
+  for (let gk = 0; gk < G; gk++) if (gkN[gk]) slotKey.push(gk)
+  slotKey.sort((a, b) => gkFirst[a]! - gkFirst[b]!)
+  const basisOrder: number[] = []
+  for (let b = 0; b < nb; b++) if (basisN[b]) basisOrder.push(b)
+  basisOrder.sort((a, b) => basisFirst[a]! - basisFirst[b]!)
+  // Each slot's and each basis's ratios, sorted: a second pass over the same rows in ratio order.
   const S = slotKey.length
   const slotAt = new Int32Array(S + 1)
-  for (let s = 0; s < S; s++) slotAt[s + 1] = slotAt[s]! + slotN[s]!
+  const slotPos = new Int32Array(G)
+  for (let s = 0; s < S; s++) {
+    slotPos[slotKey[s]!] = slotAt[s]!
+    slotAt[s + 1] = slotAt[s]! + gkN[slotKey[s]!]!
+  }
   const basisAt = new Int32Array(nb + 1)
   for (let b = 0; b < nb; b++) basisAt[b + 1] = basisAt[b]! + basisN[b]!
   const total = slotAt[S]!
   const slotVals = new Float64Array(total)
   const basisVals = new Float64Array(total)
-  const slotPos = slotAt.slice(0, S)
   const basisPos = basisAt.slice(0, nb)
-  const v = sortedView(d, quantity)
-  const pos = passing(v, t)
-  const vb = v.basis
-  const vr = v.ratio
-  const groupOf = labels.byProject ?? labels.byConfig
-  const groupKey = labels.byProject ? v.project : v.config
   for (let k = 0; k < pos.length; k++) {
     const i = pos[k]!
     const b = vb[i]!
     const x = vr[i]!
-    slotVals[slotPos[slot[(groupOf ? groupOf[groupKey[i]!]! : 0) * nb + b]!]!++] = x
+    slotVals[slotPos[(groupOf ? groupOf[groupKey[i]!]! : 0) * nb + b]!++] = x
     basisVals[basisPos[b]!++] = x
   }
   const bins = histogramBins(min, max)
