@@ -22,7 +22,8 @@
  * BENCH_IMPORT_PROJECTS (projects in each uploaded file, 200; 0 = no import), BENCH_TIMEOUT (s a
  * response may take before it counts as a timeout error, 30), BENCH_KEEP=1 keeps the work folder
  * (server log, upload files), BENCH_CPU_PROF=1 has the server write a V8 CPU profile there (implies
- * BENCH_KEEP), BENCH_ONLY=summary,precedents drives only those endpoints (names as in the mix),
+ * BENCH_KEEP), BENCH_SAMPLES=path writes each phase's requests (endpoint, second, latency, status, from
+ * the version before or not) to path.1.json, path.2.json…, BENCH_ONLY=summary,precedents drives only those endpoints (names as in the mix),
  * BENCH_REUSE=1 keeps the seeded database between runs when it still holds exactly the seeded
  * history (with DATABASE_URL, so the cluster outlives the run; an upload makes the next run seed
  * again). Uses DATABASE_URL's server when set, otherwise starts a throwaway cluster like `npm test`
@@ -360,6 +361,8 @@ interface PhaseOutcome {
   arrayBuffers: number
 }
 
+let samplesWritten = 0
+
 /** One phase of the load: the mix for DURATION seconds, an upload half way through, and its report. */
 async function runPhase(ctx: PhaseContext, phase: Phase, upload: string): Promise<PhaseOutcome> {
   const { base, analysts, bizdev, uploader, mix, rss, benchStart, server } = ctx
@@ -470,6 +473,7 @@ async function runPhase(ctx: PhaseContext, phase: Phase, upload: string): Promis
   clearTimeout(importTimer)
   // The import, if still running, is in a loader process of its own; wait for it before the next phase.
   await importDone
+  if (process.env.BENCH_SAMPLES) writeFileSync(`${process.env.BENCH_SAMPLES}.${++samplesWritten}.json`, JSON.stringify({ phase: label, import: imp, samples }))
   const sum = (f: (r: (typeof results)[number]) => number) => results.reduce((a, r) => a + f(r), 0)
   const result = {
     duration: Math.max(...results.map(r => r.duration)),

@@ -3,11 +3,14 @@ import { tableFromIPC } from 'apache-arrow'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { refreshCalibrationPairs } from '../../api/src/db/calibration'
 import { loadBenchmarkProjects } from '../../api/src/services/benchmarks'
-import { analyticsReady, cacheStats } from '../../api/src/services/calibration/store'
-import { calibrationSummary, pointsBody } from '../../api/src/services/calibration/answers'
+import { analyticsReady, cacheStats, phaseData } from '../../api/src/services/calibration/store'
+import { selection } from '../../api/src/services/calibration/derived'
+import { dropStartingStats } from '../../api/src/services/calibration/starting-index'
+import { warmCode, warmFilterShapes } from '../../api/src/services/code-warm-up'
+import { calibrationSummary, pointsBody, startingFactors } from '../../api/src/services/calibration/answers'
 import { benchmarks } from '../../api/src/services/benchmarks'
 import { BenchmarkQuery } from '@shared/schemas/benchmarks'
-import { CalibrationFilters } from '@shared/schemas/calibration'
+import { CalibrationFilters, StartingFactorsQuery } from '@shared/schemas/calibration'
 import { searchPrecedents } from '../../api/src/services/precedents'
 import { warmUp } from '../../api/src/services/warm-up'
 import { openDb } from '../../api/src/db'
@@ -22,7 +25,7 @@ let t: TestApp
 
 beforeAll(async () => {
   t = await createTestApp()
-  await loadHandProjects(t.db.db, [handProject('WARM-1', { name: 'Warm one' }), handProject('WARM-2', { name: 'Warm two', stories: 3 })])
+  await loadHandProjects(t.db.db, [handProject('WARM-1', { name: 'Warm one', building_use: 'office', aisc341_edition: '341-16' }), handProject('WARM-2', { name: 'Warm two', stories: 3, building_use: 'office' })])
   await refreshCalibrationPairs(t.db.db)
 }, 60_000)
 
@@ -64,6 +67,25 @@ describe('server warm-up', () => {
     expect(cacheStats(t.db.db)!.entries).toBe(before.entries)
     await calibrationSummary(t.db.db, CalibrationFilters.parse({ supplier: 'ZZ' }), 'cmax', 'supplier')
     expect(cacheStats(t.db.db)!.entries).toBe(before.entries + 1)
+  })
+
+  it('compiles filtered answers without keeping any of them (no cached answer, no kept starting stats)', async () => {
+    const d = await phaseData(t.db.db, 'sd')
+    const shapes = warmFilterShapes(d)
+    // Every filter of the review appears in some shape; here each shape but the all-together one selects braces.
+    const fields = new Set(shapes.flatMap(f => Object.keys(f)))
+    for (const field of Object.keys(CalibrationFilters.shape).filter(k => k !== 'phase')) expect(fields, field).toContain(field)
+    for (const f of shapes.slice(0, -1)) expect(selection(d, f).rows.length, JSON.stringify(f)).toBeGreaterThan(0)
+    dropStartingStats(d)
+    const before = cacheStats(t.db.db)!
+    const computed = await warmCode(t.db.db)
+    // 9 shapes × (5 summaries + trend + misses + cost + points + starting factors)
+    expect(computed).toBe(shapes.length * 10)
+    expect(cacheStats(t.db.db)).toEqual(before)
+    expect(dropStartingStats(d).entries).toBe(0)
+    // The same starting-factor answer outside withoutKeptStats keeps its group's stats.
+    await startingFactors(t.db.db, StartingFactorsQuery.parse({ quantile: 0.5, yearFrom: 1990 }))
+    expect(dropStartingStats(d).entries).toBe(1)
   })
 
   it('logs a failure of each part and does not throw when the database is gone', async () => {

@@ -4,6 +4,7 @@ import { CALIBRATION_GROUPINGS, CALIBRATION_QUANTITIES, CalibrationFilters, Grou
 import type { Db } from '../db'
 import { benchmarks, loadBenchmarkProjects } from './benchmarks'
 import { calibrationCost, calibrationMisses, calibrationOptions, calibrationSummary, calibrationTrend, pointsBody, startingFactors } from './calibration/answers'
+import { warmCode } from './code-warm-up'
 import { analyticsReady, onPhaseLoad, warmAnalytics } from './calibration/store'
 import { onPrecedentLoad, warmPrecedents } from './precedents'
 
@@ -13,11 +14,11 @@ type Log = (message: string) => void
  * Builds, ahead of the first request, what the first analytics, precedent and benchmark requests
  * would otherwise wait for: the default phase's columns and their derived structures, the past
  * frames laid out for ranking, the benchmark project list, then the answers the screens open with
- * (warmScreens). In that order, one after the other (they share the database and the event loop
+ * (warmScreens), then filtered answers computed only to compile their code (warmCode). In that order, one after the other (they share the database and the event loop
  * with the requests already arriving). A failure is
  * logged, never thrown: the request that needs the structure builds it then.
  */
-export async function warmUp(db: Db, log: Log = console.error): Promise<{ analyticsMs: number; precedentsMs: number; benchmarksMs: number; screensMs: number }> {
+export async function warmUp(db: Db, log: Log = console.error): Promise<{ analyticsMs: number; precedentsMs: number; benchmarksMs: number; screensMs: number; codeMs: number }> {
   const t0 = performance.now()
   await warmAnalytics(db, log)
   const t1 = performance.now()
@@ -32,9 +33,12 @@ export async function warmUp(db: Db, log: Log = console.error): Promise<{ analyt
   )
   const t3 = performance.now()
   // Only when the parts before succeeded: with the database gone, each answer would fail again.
-  if (analyticsReady(db) && listed) await warmScreens(db).catch(err => log(`screen warm-up failed: ${err instanceof Error ? err.message : String(err)}`))
+  const ok = analyticsReady(db) && listed
+  if (ok) await warmScreens(db).catch(err => log(`screen warm-up failed: ${err instanceof Error ? err.message : String(err)}`))
   const t4 = performance.now()
-  return { analyticsMs: t1 - t0, precedentsMs: t2 - t1, benchmarksMs: t3 - t2, screensMs: t4 - t3 }
+  if (ok) await warmCode(db).catch(err => log(`code warm-up failed: ${err instanceof Error ? err.message : String(err)}`))
+  const t5 = performance.now()
+  return { analyticsMs: t1 - t0, precedentsMs: t2 - t1, benchmarksMs: t3 - t2, screensMs: t4 - t3, codeMs: t5 - t4 }
 }
 
 /**
@@ -79,7 +83,7 @@ export function startWarmUp(db: Db, log: Log = console.log): void {
   const t0 = performance.now()
   void warmUp(db, log).then(t =>
     log(
-      `warm-up finished after ${((performance.now() - t0) / 1000).toFixed(1)} s (analytics ${(t.analyticsMs / 1000).toFixed(1)} s, ready: ${analyticsReady(db)}; precedents ${(t.precedentsMs / 1000).toFixed(1)} s; benchmarks ${(t.benchmarksMs / 1000).toFixed(1)} s; screens' opening answers ${(t.screensMs / 1000).toFixed(1)} s)`,
+      `warm-up finished after ${((performance.now() - t0) / 1000).toFixed(1)} s (analytics ${(t.analyticsMs / 1000).toFixed(1)} s, ready: ${analyticsReady(db)}; precedents ${(t.precedentsMs / 1000).toFixed(1)} s; benchmarks ${(t.benchmarksMs / 1000).toFixed(1)} s; screens' opening answers ${(t.screensMs / 1000).toFixed(1)} s; filtered answers compiled ${(t.codeMs / 1000).toFixed(1)} s)`,
     ),
   )
 }

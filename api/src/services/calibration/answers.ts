@@ -124,7 +124,8 @@ export async function calibrationMisses(db: Db, filters: CalibrationFilters, qua
   )
 }
 
-async function tonnageByProject(db: Db): Promise<Map<number, { preliminary: TonnageByCategory; final: TonnageByCategory }>> {
+/** Preliminary and final tonnage per project (cached per data version). */
+export async function tonnageByProject(db: Db): Promise<Map<number, { preliminary: TonnageByCategory; final: TonnageByCategory }>> {
   return cached(db, key('tonnage'), async () => {
     const { rows } = await poolOf(db).query<{ project_id: number; stage: 'preliminary' | 'final'; category: keyof TonnageByCategory; tons: number }>(
       `select t.project_id, t.stage::text as stage, t.category::text as category, t.tons_short as tons from tonnage t where t.project_id in (select distinct project_id from calibration_pairs)`,

@@ -817,7 +817,24 @@ export function dropStartingStats(d: PhaseData): { entries: number; bytes: numbe
   return { entries: kept?.entries.size ?? 0, bytes: kept?.bytes ?? 0 }
 }
 
+/** False while `withoutKeptStats` runs. */
+let keepingStats = true
+
+/**
+ * Runs `fn` (synchronous) without keeping or reading any group stats: answers computed only to
+ * compile the code (the code warm-up) neither fill the stats budget nor find another's stats.
+ */
+export function withoutKeptStats<T>(fn: () => T): T {
+  keepingStats = false
+  try {
+    return fn()
+  } finally {
+    keepingStats = true
+  }
+}
+
 function groupStatsCached(d: PhaseData, cells: Int32Array, habitYears: number, compute: () => Map<StartingQuantity, QuantityStats>): Map<StartingQuantity, QuantityStats> {
+  if (!keepingStats) return compute()
   let kept = statsKept.get(d)
   if (!kept) statsKept.set(d, (kept = { entries: new Map(), bytes: 0 }))
   let h = 0x811c9dc5
