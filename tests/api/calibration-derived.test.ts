@@ -2,7 +2,7 @@ import { tableFromIPC } from 'apache-arrow'
 import { describe, expect, it } from 'vitest'
 import { CALIBRATION_GROUPINGS, CALIBRATION_QUANTITIES, MISS_SORTS, STARTING_QUANTITIES } from '@shared/schemas/calibration'
 import type { TonnageByCategory } from '@shared/calibration'
-import { costAnswer, missesAnswer, pointRowsOf, selection, startingAnswer, summaryAnswer, tables, trendAnswer } from '../../api/src/services/calibration/derived'
+import { costAnswer, missesAnswer, pointRowsOf, preparationSteps, selection, sortedView, startingAnswer, summaryAnswer, tables, trendAnswer } from '../../api/src/services/calibration/derived'
 import { dropStartingStats, startingAnswerIndexed } from '../../api/src/services/calibration/starting-index'
 import { pointsArrow } from '../../api/src/services/calibration/points'
 import { refCost, refMisses, refPointRows, refPointsArrow, refStarting, refSummary, refTrend } from '../../api/src/services/calibration/reference'
@@ -183,5 +183,49 @@ describe('the points as Arrow', () => {
     // Each point's name is its project's, looked up directly in the columns.
     expect(decoded).toEqual(Array.from(pts.rows, r => d.projects.name[d.project[r]!]!))
     for (const name of names.slice(0, 2)) expect(decoded).toContain(name)
+  })
+})
+
+describe('the ratio orders and sorted views built in parts (as a background build does)', () => {
+  // preparationSteps: [group codes, then per quantity its ratio order and its sorted view, …].
+  const quantities = (d: ReturnType<typeof syntheticPhase>) => Object.keys(d.q) as (typeof CALIBRATION_QUANTITIES)[number][]
+
+  it('yields between parts and builds what the one-shot build does', () => {
+    const d = syntheticPhase(7, 900, 200)
+    expect(d.n).toBeGreaterThan(65_536 + 1000)
+    const once = syntheticPhase(7, 900, 200)
+    const steps = preparationSteps(d)
+    steps[0]!()
+    const q = quantities(d)[0]!
+    const yieldsOf = (step: (typeof steps)[number]) => {
+      const parts = step()
+      expect(parts).toBeDefined()
+      let yields = 0
+      for (let r = parts!.next(); !r.done; r = parts!.next()) yields++
+      return yields
+    }
+    // The order: after the ratios, after the rows that carry the quantity, after each radix pass that reorders (1–4).
+    const orderYields = yieldsOf(steps[1]!)
+    expect(orderYields).toBeGreaterThanOrEqual(3)
+    expect(orderYields).toBeLessThanOrEqual(6)
+    // The view (its order already built): before each part of 65,536 rows.
+    expect(yieldsOf(steps[2]!)).toBe(Math.ceil(sortedView(d, q).rows.length / 65_536))
+    expect(sortedView(d, q).rows.length).toBeGreaterThan(65_536)
+    const view = sortedView(d, q)
+    const fresh = sortedView(once, q)
+    for (const k of ['rows', 'project', 'config', 'core', 'basis', 'ratio'] as const) expect(Array.from(view[k])).toEqual(Array.from(fresh[k]))
+  })
+
+  it('keeps the view a request built while the parts were half way', () => {
+    const d = syntheticPhase(8, 300, 40)
+    const steps = preparationSteps(d)
+    const q = quantities(d)[0]!
+    const parts = steps[2]!()!
+    parts.next()
+    const asked = sortedView(d, q)
+    let r = parts.next()
+    while (!r.done) r = parts.next()
+    expect(r.value).toBe(asked)
+    expect(sortedView(d, q)).toBe(asked)
   })
 })

@@ -14,7 +14,7 @@ import {
   type StartingSuggestion,
 } from '@shared/schemas/calibration'
 import { costOfProject, costTotals, histogramBins, type ProjectCost, quantileOfSorted, summarizeSortedRatios, yearBand, type TonnageByCategory } from '@shared/calibration'
-import { drain, layoutSteps, quantityIndexSteps, sortByValue, startingAnswerIndexed, startingIndex } from './starting-index'
+import { drain, layoutSteps, quantityIndexSteps, sortByValueParts, startingAnswerIndexed, startingIndex } from './starting-index'
 import type { PhaseData } from './store'
 
 /**
@@ -254,17 +254,29 @@ function braceOrder(d: PhaseData): Int32Array {
 
 /** Rows carrying `quantity`, ascending by (ratio, brace id). */
 export function rowsByRatio(d: PhaseData, quantity: CalibrationQuantity): Int32Array {
+  return derivedOf(d).byRatio.get(quantity) ?? drain(rowsByRatioParts(d, quantity))
+}
+
+/**
+ * `rowsByRatio` in parts, yielding after the ratios, the rows that carry the quantity and each pass
+ * of the sort. A request that needs the order meanwhile builds it at once; the first one built is kept.
+ */
+function* rowsByRatioParts(d: PhaseData, quantity: CalibrationQuantity): Generator<void, Int32Array> {
   const x = derivedOf(d)
-  let o = x.byRatio.get(quantity)
-  if (!o) {
-    const basis = d.q[quantity].basis
-    const bo = braceOrder(d)
-    const rows = new Int32Array(d.n)
-    let m = 0
-    for (let i = 0; i < bo.length; i++) if (basis[bo[i]!]! >= 0) rows[m++] = bo[i]!
-    o = sortByValue(rows.subarray(0, m), ratios(d, quantity))
-    x.byRatio.set(quantity, o)
-  }
+  const built = x.byRatio.get(quantity)
+  if (built) return built
+  const ratio = ratios(d, quantity)
+  yield
+  const basis = d.q[quantity].basis
+  const bo = braceOrder(d)
+  const rows = new Int32Array(d.n)
+  let m = 0
+  for (let i = 0; i < bo.length; i++) if (basis[bo[i]!]! >= 0) rows[m++] = bo[i]!
+  yield
+  const o = yield* sortByValueParts(rows.subarray(0, m), ratio)
+  const meanwhile = x.byRatio.get(quantity)
+  if (meanwhile) return meanwhile
+  x.byRatio.set(quantity, o)
   return o
 }
 
@@ -283,15 +295,26 @@ export interface SortedView {
 }
 
 export function sortedView(d: PhaseData, quantity: CalibrationQuantity): SortedView {
+  return derivedOf(d).views.get(quantity) ?? drain(sortedViewParts(d, quantity))
+}
+
+/** Rows of the sorted view laid out between two yields of `sortedViewParts`. */
+const VIEW_PART = 65_536
+
+/** `sortedView` in parts of VIEW_PART rows (after the order itself, built in parts too); the first one built is kept. */
+function* sortedViewParts(d: PhaseData, quantity: CalibrationQuantity): Generator<void, SortedView> {
   const x = derivedOf(d)
-  let v = x.views.get(quantity)
-  if (!v) {
-    const rows = rowsByRatio(d, quantity)
-    const n = rows.length
-    const ratio = ratios(d, quantity)
-    const basis = d.q[quantity].basis
-    v = { rows, project: new Int32Array(n), config: new Int32Array(n), core: new Float64Array(n), basis: new Int32Array(n), ratio: new Float64Array(n) }
-    for (let i = 0; i < n; i++) {
+  const built = x.views.get(quantity)
+  if (built) return built
+  const rows = yield* rowsByRatioParts(d, quantity)
+  const n = rows.length
+  const ratio = ratios(d, quantity)
+  const basis = d.q[quantity].basis
+  const v: SortedView = { rows, project: new Int32Array(n), config: new Int32Array(n), core: new Float64Array(n), basis: new Int32Array(n), ratio: new Float64Array(n) }
+  for (let start = 0; start < n; start += VIEW_PART) {
+    yield
+    const end = Math.min(n, start + VIEW_PART)
+    for (let i = start; i < end; i++) {
       const r = rows[i]!
       v.project[i] = d.project[r]!
       v.config[i] = d.configuration.codes[r]!
@@ -299,8 +322,10 @@ export function sortedView(d: PhaseData, quantity: CalibrationQuantity): SortedV
       v.basis[i] = basis[r]!
       v.ratio[i] = ratio[r]!
     }
-    x.views.set(quantity, v)
   }
+  const meanwhile = x.views.get(quantity)
+  if (meanwhile) return meanwhile
+  x.views.set(quantity, v)
   return v
 }
 
@@ -397,7 +422,7 @@ export function preparationSteps(d: PhaseData): PreparationStep[] {
     () => {
       for (const g of ['supplier', 'configuration', 'yearBand', 'office', 'none'] as const) groupCodes(d, g)
     },
-    ...quantities.flatMap(q => [() => void rowsByRatio(d, q), () => void sortedView(d, q)]),
+    ...quantities.flatMap(q => [() => rowsByRatioParts(d, q), () => sortedViewParts(d, q)]),
     ...quantities.flatMap(q => (['ratio', 'project', 'year', 'supplier'] as const).map(s => () => void missOrder(d, q, s))),
     () => {
       rowYears(d)

@@ -374,6 +374,11 @@ const LITTLE_ENDIAN = new Uint8Array(new Uint16Array([1]).buffer)[0] === 1
  * IEEE 754 bits, which order such doubles as unsigned integers).
  */
 export function sortByValue(rows: Int32Array, v: Float64Array): Int32Array {
+  return drain(sortByValueParts(rows, v))
+}
+
+/** `sortByValue` in parts: it yields after each pass of the radix sort (a background build pauses there). */
+export function* sortByValueParts(rows: Int32Array, v: Float64Array): Generator<void, Int32Array> {
   if (!LITTLE_ENDIAN || v.byteOffset % 8 !== 0) return Int32Array.from(rows).sort((a, b) => v[a]! - v[b]!) // typed-array sort is stable
   const bits = new Uint32Array(v.buffer, v.byteOffset, v.length * 2)
   let a = Int32Array.from(rows)
@@ -388,6 +393,7 @@ export function sortByValue(rows: Int32Array, v: Float64Array): Int32Array {
     for (let k = 1; k < 65537; k++) count[k]! += count[k - 1]!
     for (let i = 0; i < a.length; i++) b[count[(bits[2 * a[i]! + word]! >>> shift) & 0xffff]!++] = a[i]!
     ;[a, b] = [b, a]
+    yield
   }
   return a
 }
