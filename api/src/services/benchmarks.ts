@@ -1,8 +1,10 @@
-import { and, eq, gte, inArray, lte, notExists, sql, type SQL } from 'drizzle-orm'
+import { and, eq, inArray, notExists, sql, type SQL } from 'drizzle-orm'
 import type { Role } from '@shared/auth/roles'
 import { buildGroups, describeCriteria, proposalFromGroup, proposalGroup, proposalGroupKey, type Audience, type BenchmarkProject } from '@shared/benchmarks/groups'
 import { BENCHMARK_METRICS, METRIC_UNITS, MIN_PUBLISHED_GROUP, type BenchmarkQuery, type BenchmarkResponse, type ProposalBody, type ProposalResponse } from '@shared/schemas/benchmarks'
-import type { Db } from '../db'
+import { drizzle } from 'drizzle-orm/node-postgres'
+import { schema, type Db } from '../db'
+import { changedSince, inSnapshot, readVersionIn } from '../db/calibration'
 import { braces, braceSnapshots, frames, levels, projects, reviewItems, tonnage } from '../db/history-schema'
 import { historyCache } from './history-cache'
 import { cached } from './calibration/store'
@@ -23,8 +25,21 @@ export const audienceOf = (role: Role | undefined): Audience => (role === 'bd' ?
 
 type Filters = Pick<BenchmarkQuery, 'yearFrom' | 'yearTo' | 'use' | 'sdc' | 'region'>
 
-/** Every finished project with the figures the benchmarks need, read once per data version. */
-const projectsCache = historyCache<BenchmarkProject[]>()
+/**
+ * Every finished project with the figures the benchmarks need, ascending by project id, at the data
+ * version its snapshot read (`kind`: how it was read).
+ */
+export interface BenchmarkList {
+  version: number
+  kind: 'full' | 'delta' | 'unchanged'
+  ids: number[]
+  projects: BenchmarkProject[]
+}
+
+/** The list, read once per data version. */
+const listCache = historyCache<BenchmarkList>()
+/** The latest list read from each database, at whatever version: the base of the next read. */
+const lastLists = new WeakMap<Db, Promise<BenchmarkList>>()
 
 /**
  * The finished projects behind the benchmarks matching `filters`: the whole list is read once per
@@ -32,7 +47,12 @@ const projectsCache = historyCache<BenchmarkProject[]>()
  * SDC or region never matches a filter on it).
  */
 export async function loadBenchmarkProjects(db: Db, filters: Filters = {}): Promise<BenchmarkProject[]> {
-  const all = await projectsCache(db, () => queryBenchmarkProjects(db, {}))
+  const { projects: all } = await listCache(db, () => {
+    const prev = lastLists.get(db)
+    const load = (async () => readBenchmarkList(db, prev ? await prev.catch(() => undefined) : undefined))()
+    lastLists.set(db, load)
+    return load
+  })
   const { yearFrom, yearTo } = filters
   const use = filters.use?.length ? new Set<string>(filters.use) : null
   const sdc = filters.sdc?.length ? new Set<string>(filters.sdc) : null
@@ -48,7 +68,39 @@ export async function loadBenchmarkProjects(db: Db, filters: Filters = {}): Prom
   )
 }
 
-async function queryBenchmarkProjects(db: Db, filters: Filters): Promise<BenchmarkProject[]> {
+/**
+ * The benchmark list in one read-only snapshot. With `base` (a list read before) and a change log
+ * that covers the versions in between (`changedSince`), only the changed projects are read again
+ * and merged into the base's, as the analytics columns and the precedent history are: after an
+ * import of a few hundred projects that is a few hundred instead of every project's frames, braces
+ * and tonnage. Otherwise, or without a base, every project is read.
+ */
+export async function readBenchmarkList(db: Db, base?: BenchmarkList): Promise<BenchmarkList> {
+  return inSnapshot(db, async client => {
+    const version = await readVersionIn(client)
+    const changed = base ? await changedSince(client, base.version, version) : null
+    if (base && changed && changed.length === 0) return { ...base, version, kind: 'unchanged' as const }
+    const read = await queryBenchmarkProjects(drizzle(client, { schema }), changed ?? undefined)
+    if (!base || !changed) return { version, kind: 'full' as const, ...read }
+    // Both ascending by id: the base without the changed projects, with the changed ones read again merged in.
+    const gone = new Set(changed)
+    const ids: number[] = []
+    const list: BenchmarkProject[] = []
+    let j = 0
+    for (let i = 0; i < base.ids.length; i++) {
+      const id = base.ids[i]!
+      if (gone.has(id)) continue
+      for (; j < read.ids.length && read.ids[j]! < id; j++) ids.push(read.ids[j]!), list.push(read.projects[j]!)
+      ids.push(id)
+      list.push(base.projects[i]!)
+    }
+    for (; j < read.ids.length; j++) ids.push(read.ids[j]!), list.push(read.projects[j]!)
+    return { version, kind: 'delta' as const, ids, projects: list }
+  })
+}
+
+/** The finished projects' benchmark figures (only those of `projectIds` when given), ascending by id. */
+async function queryBenchmarkProjects(db: Db, projectIds?: readonly number[]): Promise<{ ids: number[]; projects: BenchmarkProject[] }> {
   const where: SQL[] = [
     eq(projects.draft, false),
     // A probable duplicate counts only once someone has confirmed it is a separate building.
@@ -59,13 +111,12 @@ async function queryBenchmarkProjects(db: Db, filters: Filters): Promise<Benchma
         .where(and(eq(reviewItems.projectCode, projects.code), eq(reviewItems.field, 'project'), eq(reviewItems.status, 'open'))),
     ),
   ]
-  if (filters.yearFrom !== undefined) where.push(gte(projects.yearDesigned, filters.yearFrom))
-  if (filters.yearTo !== undefined) where.push(lte(projects.yearDesigned, filters.yearTo))
-  if (filters.use?.length) where.push(inArray(projects.buildingUse, filters.use))
-  if (filters.sdc?.length) where.push(inArray(projects.sdc, filters.sdc))
-  if (filters.region?.length) where.push(inArray(projects.region, filters.region))
-  const rows = await db.select().from(projects).where(and(...where))
-  if (rows.length === 0) return []
+  if (projectIds) {
+    if (projectIds.length === 0) return { ids: [], projects: [] }
+    where.push(inArray(projects.id, [...projectIds]))
+  }
+  const rows = await db.select().from(projects).where(and(...where)).orderBy(projects.id)
+  if (rows.length === 0) return { ids: [], projects: [] }
   // The projects' ids as a subquery, not a list of thousands of parameters to send and plan.
   const ids = db.select({ id: projects.id }).from(projects).where(and(...where))
 
@@ -104,7 +155,7 @@ async function queryBenchmarkProjects(db: Db, filters: Filters): Promise<Benchma
     if (!t) tonBy.set(row.projectId, (t = { preliminary: {}, final: {} }))
     t[row.stage][row.category] = row.tons
   }
-  return rows.map(r => {
+  const list = rows.map(r => {
     const f = frameBy.get(r.id)
     const c = coreBy.get(r.id)
     const t: BenchmarkProject['tonnage'] = tonBy.get(r.id) ?? { preliminary: {}, final: {} }
@@ -125,6 +176,7 @@ async function queryBenchmarkProjects(db: Db, filters: Filters): Promise<Benchma
       tonnage: t,
     }
   })
+  return { ids: rows.map(r => r.id), projects: list }
 }
 
 /**
