@@ -6,7 +6,7 @@ import { drizzle } from 'drizzle-orm/node-postgres'
 import { schema, type Db } from '../db'
 import { changedSince, inSnapshot, readVersionIn } from '../db/calibration'
 import { braces, braceSnapshots, frames, levels, projects, reviewItems, tonnage } from '../db/history-schema'
-import { historyCache } from './history-cache'
+import { fromLastRead, historyCache } from './history-cache'
 import { cached } from './calibration/store'
 
 /**
@@ -38,8 +38,8 @@ export interface BenchmarkList {
 
 /** The list, read once per data version. */
 const listCache = historyCache<BenchmarkList>()
-/** The latest list read from each database, at whatever version: the base of the next read. */
-const lastLists = new WeakMap<Db, Promise<BenchmarkList>>()
+/** A list read from the latest one read before it. */
+const readListFromLast = fromLastRead(readBenchmarkList)
 
 /**
  * The finished projects behind the benchmarks matching `filters`: the whole list is read once per
@@ -47,12 +47,7 @@ const lastLists = new WeakMap<Db, Promise<BenchmarkList>>()
  * SDC or region never matches a filter on it).
  */
 export async function loadBenchmarkProjects(db: Db, filters: Filters = {}): Promise<BenchmarkProject[]> {
-  const { projects: all } = await listCache(db, () => {
-    const prev = lastLists.get(db)
-    const load = (async () => readBenchmarkList(db, prev ? await prev.catch(() => undefined) : undefined))()
-    lastLists.set(db, load)
-    return load
-  })
+  const { projects: all } = await listCache(db, () => readListFromLast(db))
   const { yearFrom, yearTo } = filters
   const use = filters.use?.length ? new Set<string>(filters.use) : null
   const sdc = filters.sdc?.length ? new Set<string>(filters.sdc) : null

@@ -88,3 +88,17 @@ export function historyCache<T>() {
     return freshOrRecent(db, e.value, () => previous.value, previous.version, e.version)
   }
 }
+
+/**
+ * `read` chained per database: each call starts from the latest read before it (at whatever
+ * version; undefined when there is none or it failed), the base a delta read merges into.
+ */
+export function fromLastRead<T>(read: (db: Db, base: T | undefined) => Promise<T>): (db: Db) => Promise<T> {
+  const last = new WeakMap<Db, Promise<T>>()
+  return db => {
+    const prev = last.get(db)
+    const load = (async () => read(db, prev ? await prev.catch(() => undefined) : undefined))()
+    last.set(db, load)
+    return load
+  }
+}

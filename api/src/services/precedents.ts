@@ -5,7 +5,7 @@ import { featureSpreads, prepareCandidates, rankPrecedents, type PrecedentCandid
 import { DEFAULT_PRECEDENT_WEIGHTS, type PrecedentMatch, type PrecedentSearchBody, type PrecedentSearchResponse } from '@shared/schemas/precedents'
 import { DESIGN_CAUTIONS } from '@shared/schemas/projects'
 import { lateralTons } from '@shared/benchmarks/groups'
-import { historyCache } from './history-cache'
+import { fromLastRead, historyCache } from './history-cache'
 import { sliceClock } from './answer-freshness'
 import { LB_PER_SHORT_TON } from '@shared/units/constants'
 import { knToKip } from '@shared/units/force'
@@ -335,8 +335,8 @@ async function loadHistory(db: Db, base: History | undefined): Promise<History> 
 
 // Every past frame laid out for ranking, its levels and final tonnage: the same for every search until the data changes.
 const historyEntry = historyCache<History>()
-/** The latest history read from each database, at whatever version: the base of the next read. */
-const lastHistory = new WeakMap<Db, Promise<History>>()
+/** A history read from the latest one read before it. */
+const readHistoryFromLast = fromLastRead(loadHistory)
 
 /** The levels of candidate `i` as a match shows them. */
 function levelsOf(L: FrameLevels, i: number): PrecedentMatch['levels'] {
@@ -359,13 +359,7 @@ function levelsOf(L: FrameLevels, i: number): PrecedentMatch['levels'] {
 }
 
 /** Every past frame laid out for ranking, read once per data version. */
-const historyOf = (db: Db): Promise<History> =>
-  historyEntry(db, () => {
-    const prev = lastHistory.get(db)
-    const load = (async () => loadHistory(db, prev ? await prev.catch(() => undefined) : undefined))()
-    lastHistory.set(db, load)
-    return load
-  })
+const historyOf = (db: Db): Promise<History> => historyEntry(db, () => readHistoryFromLast(db))
 
 /** Lays out the past frames for ranking ahead of the first search (a server does this once it listens). */
 export async function warmPrecedents(db: Db): Promise<number> {

@@ -14,9 +14,9 @@ type Log = (message: string) => void
  * Builds, ahead of the first request, what the first analytics, precedent and benchmark requests
  * would otherwise wait for: the default phase's columns and their derived structures, the past
  * frames laid out for ranking, the benchmark project list, then the answers the screens open with
- * (warmScreens), then filtered answers computed only to compile their code (warmCode). In that order, one after the other (they share the database and the event loop
- * with the requests already arriving). A failure is
- * logged, never thrown: the request that needs the structure builds it then.
+ * (warmScreens), then filtered answers computed only to compile their code (warmCode). In that
+ * order, one after the other (they share the database and the event loop with the requests already
+ * arriving). A failure is logged, never thrown: the request that needs the structure builds it then.
  */
 export async function warmUp(db: Db, log: Log = console.error): Promise<{ analyticsMs: number; precedentsMs: number; benchmarksMs: number; screensMs: number; codeMs: number }> {
   const t0 = performance.now()
